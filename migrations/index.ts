@@ -1,0 +1,8 @@
+// Every migration, by name, in order. Imported statically so the same list works
+// under tsx, Vitest and the bundler; a test checks it matches the folder.
+import type { Migration } from 'kysely';
+import * as dataModelV1 from './2026-12-01T2200_data_model_v1';
+
+export const migrations: Record<string, Migration> = {
+	'2026-12-01T2200_data_model_v1': dataModelV1
+};

@@ -1,0 +1,55 @@
+#!/usr/bin/env bash
+# npm start: from a fresh clone to the seeded shop on http://$HOST:$PORT.
+# Installs what is missing, starts PostgreSQL, migrates, seeds an empty
+# database, builds, serves. Ctrl-C stops everything this script started.
+source "$(dirname "${BASH_SOURCE[0]}")/lib.sh"
+load_env
+started_at=$(date +%s)
+
+if port_in_use "$PORT"; then
+	die "Port $PORT on 127.0.0.1 is already taken (is Hatchlot running in another terminal?); stop that program or set PORT in .env."
+fi
+
+ensure_node_modules
+
+STARTED_DB=0
+APP_PID=""
+cleanup() {
+	trap - INT TERM EXIT
+	if [ -n "$APP_PID" ] && kill -0 "$APP_PID" 2>/dev/null; then
+		say "stopping the app…"
+		kill "$APP_PID" 2>/dev/null || true
+		wait "$APP_PID" 2>/dev/null || true
+	fi
+	# Stop services only if this run started them; leave what was already running.
+	[ "$STARTED_DB" = "1" ] && bash scripts/db.sh stop || true
+}
+trap cleanup EXIT
+trap 'exit 130' INT TERM
+
+if ! bash scripts/db.sh status; then STARTED_DB=1; fi
+bash scripts/db.sh start
+
+say "migrating $PG_DATABASE…"
+npx tsx scripts/migrate.ts latest
+
+say "seeding the demo if the database is empty…"
+npx tsx seed/run.ts --if-empty
+
+say "building the production app…"
+npx vite build --logLevel warn
+
+say "starting the app on http://$HOST:$PORT …"
+node build &
+APP_PID=$!
+
+for _ in $(seq 1 100); do
+	if port_in_use "$PORT"; then break; fi
+	kill -0 "$APP_PID" 2>/dev/null || die "The app exited during start-up; its messages are above."
+	sleep 0.2
+done
+
+say "ready in $(( $(date +%s) - started_at )) s: http://$HOST:$PORT"
+npx tsx scripts/print-demo-accounts.ts
+say "press Ctrl-C to stop"
+wait "$APP_PID"

@@ -1,0 +1,54 @@
+#!/usr/bin/env bash
+# npm test: the same bootstrap as npm start, against the test database, then
+# svelte-check, lint, Vitest (unit + integration on real PostgreSQL) and
+# Playwright in Debian's Chromium. Exits non-zero on the first failure.
+source "$(dirname "${BASH_SOURCE[0]}")/lib.sh"
+load_env
+started_at=$(date +%s)
+
+# Everything below talks to the test database, never the demo one.
+DATABASE_URL="${DATABASE_URL%/*}/$PG_TEST_DATABASE"
+export DATABASE_URL
+# A fixed day keeps the seeded scenario, and so the tests, the same every run.
+export SEED_TODAY="${TEST_SEED_TODAY:-2026-12-01}"
+
+ensure_node_modules
+ensure_chromium
+
+STARTED_DB=0
+cleanup() {
+	trap - INT TERM EXIT
+	[ "$STARTED_DB" = "1" ] && bash scripts/db.sh stop || true
+}
+trap cleanup EXIT
+trap 'exit 130' INT TERM
+if ! bash scripts/db.sh status; then STARTED_DB=1; fi
+bash scripts/db.sh start
+
+step() { say "── $* ──"; }
+
+step "fresh test database: migrate and seed"
+if [ "$PG_MANAGED" = "1" ]; then
+	PGPASSWORD="$PG_PASSWORD" psql -X -q -v ON_ERROR_STOP=1 -h 127.0.0.1 -p "$PG_PORT" -U "$PG_USER" -d postgres \
+		-c "drop database if exists \"$PG_TEST_DATABASE\" with (force)" -c "create database \"$PG_TEST_DATABASE\""
+fi
+npx tsx scripts/migrate.ts latest
+npx tsx seed/run.ts
+
+step "svelte-check"
+npm run --silent check
+
+step "lint (prettier + eslint)"
+npm run --silent lint
+
+step "production build"
+npx vite build --logLevel warn
+
+step "vitest (unit and integration)"
+npx vitest run
+
+step "playwright (Chromium at 390 px and 1280 px)"
+mkdir -p tests/artifacts
+npx playwright test -c tests/e2e/playwright.config.ts
+
+say "all tests passed in $(( $(date +%s) - started_at )) s"

@@ -1,0 +1,52 @@
+// Builds a Kysely instance on a pg pool. No $env here, so scripts, seeds and
+// tests use the same connection rules as the app.
+import { Kysely, PostgresDialect } from 'kysely';
+import pg from 'pg';
+import type { Database } from './schema';
+
+const { Pool, types } = pg;
+
+const INT8 = 20;
+const DATE = 1082;
+const DATE_ARRAY = 1182;
+
+/** bigint counts and sums as exact integers; refuse rather than round. */
+export function parseInt8(value: string): number {
+	const parsed = Number(value);
+	if (!Number.isSafeInteger(parsed))
+		throw new RangeError(`bigint ${value} is beyond a safe integer`);
+	return parsed;
+}
+
+// Dates stay 'YYYY-MM-DD' text: a JS Date would move them with the server's zone.
+const dateArrayParser = types.getTypeParser(1009); // text[]
+function getTypeParser(oid: number, format?: 'text' | 'binary') {
+	if (oid === INT8) return parseInt8;
+	if (oid === DATE) return (value: string) => value;
+	if (oid === DATE_ARRAY) return dateArrayParser;
+	return types.getTypeParser(oid, format);
+}
+
+export type Db = Kysely<Database>;
+
+export function createPool(connectionString: string, max = 10): pg.Pool {
+	const pool = new Pool({
+		connectionString,
+		max,
+		types: { getTypeParser } as pg.CustomTypesConfig,
+		connectionTimeoutMillis: 3_000,
+		idleTimeoutMillis: 30_000
+	});
+	// An idle client losing its server (a restart) must not crash the process;
+	// the next query opens a fresh connection.
+	pool.on('error', (err) => {
+		console.warn(`[db] idle connection lost: ${err.message}`);
+	});
+	return pool;
+}
+
+export function createDb(connectionString: string, max = 10): Db {
+	return new Kysely<Database>({
+		dialect: new PostgresDialect({ pool: createPool(connectionString, max) })
+	});
+}

@@ -1,0 +1,113 @@
+// /api/health on the production build: 503 while PostgreSQL is unreachable,
+// then 200 by itself once it comes up, with no restart of the app.
+import { spawn, type ChildProcess } from 'node:child_process';
+import { existsSync } from 'node:fs';
+import net from 'node:net';
+import path from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { LATEST_MIGRATION } from '../../src/lib/server/db/migrator';
+import { scratchDatabase, type ScratchDatabase } from './support/databases';
+
+const BUILD = path.resolve(import.meta.dirname, '../../build/index.js');
+
+async function freePort(): Promise<number> {
+	const server = net.createServer();
+	await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
+	const { port } = server.address() as net.AddressInfo;
+	await new Promise((resolve) => server.close(resolve));
+	return port;
+}
+
+/** A TCP relay that stands in for "the database host coming up". */
+function relayTo(targetPort: number): net.Server {
+	return net.createServer((inbound) => {
+		const outbound = net.connect(targetPort, '127.0.0.1');
+		inbound.pipe(outbound).pipe(inbound);
+		inbound.on('error', () => outbound.destroy());
+		outbound.on('error', () => inbound.destroy());
+	});
+}
+
+async function health(
+	appPort: number
+): Promise<{ status: number; body: Record<string, unknown> } | null> {
+	try {
+		const response = await fetch(`http://127.0.0.1:${appPort}/api/health`);
+		return { status: response.status, body: (await response.json()) as Record<string, unknown> };
+	} catch {
+		return null; // the app is not listening yet
+	}
+}
+
+async function waitFor<T>(
+	probe: () => Promise<T | null>,
+	accept: (value: T) => boolean,
+	ms: number
+): Promise<T> {
+	const deadline = Date.now() + ms;
+	let last: T | null = null;
+	while (Date.now() < deadline) {
+		last = await probe();
+		if (last !== null && accept(last)) return last;
+		await new Promise((resolve) => setTimeout(resolve, 150));
+	}
+	throw new Error(`gave up waiting; last answer: ${JSON.stringify(last)}`);
+}
+
+describe('GET /api/health', () => {
+	let scratch: ScratchDatabase;
+	let app: ChildProcess;
+	let appPort: number;
+	let dbPort: number;
+	let relay: net.Server | undefined;
+
+	beforeAll(async () => {
+		if (!existsSync(BUILD))
+			throw new Error('build/index.js is missing: run `npm run build` first (npm test does).');
+		scratch = await scratchDatabase();
+		appPort = await freePort();
+		dbPort = await freePort();
+		const url = new URL(scratch.url);
+		url.port = String(dbPort);
+		app = spawn(process.execPath, [BUILD], {
+			env: {
+				...process.env,
+				HOST: '127.0.0.1',
+				PORT: String(appPort),
+				ORIGIN: `http://127.0.0.1:${appPort}`,
+				DATABASE_URL: url.toString()
+			},
+			stdio: 'ignore'
+		});
+	});
+	afterAll(async () => {
+		app?.kill('SIGTERM');
+		await new Promise((resolve) => (relay ? relay.close(resolve) : resolve(undefined)));
+		await scratch?.drop();
+	});
+
+	it('answers 503 while the database is down and 200 once it is up', async () => {
+		const down = await waitFor(
+			() => health(appPort),
+			() => true,
+			15_000
+		);
+		expect(down.status).toBe(503);
+		expect(down.body).toMatchObject({ status: 'unavailable', database: 'unreachable' });
+		expect(JSON.stringify(down.body)).not.toMatch(/at .*\.js/); // no stack trace leaks
+
+		relay = relayTo(Number(new URL(scratch.url).port));
+		await new Promise<void>((resolve) => relay!.listen(dbPort, '127.0.0.1', resolve));
+
+		const up = await waitFor(
+			() => health(appPort),
+			(r) => r.status === 200,
+			15_000
+		);
+		expect(up.body).toMatchObject({
+			status: 'ok',
+			database: 'reachable',
+			migration: LATEST_MIGRATION
+		});
+	});
+});
