@@ -9,7 +9,7 @@ export default defineConfig({
 		projects: [
 			{
 				extends: true,
-				test: { name: 'unit', include: ['src/**/*.test.ts'] }
+				test: { name: 'unit', include: ['src/**/*.test.ts', 'seed/**/*.test.ts'] }
 			},
 			{
 				extends: true,

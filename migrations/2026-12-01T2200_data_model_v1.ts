@@ -495,7 +495,7 @@ const statements = [
 	sql`create index refund_order_idx on refund (order_id)`,
 	sql`create table refund_line (
 		refund_id integer not null references refund(id) on delete cascade,
-		order_line_id integer not null references order_line(id),
+		order_line_id integer not null references order_line(id) on delete cascade,
 		quantity integer not null check (quantity >= 1),
 		restock boolean not null default false,
 		primary key (refund_id, order_line_id)
@@ -522,7 +522,7 @@ const statements = [
 	sql`create index claim_state_idx on claim (state, filed_at)`,
 	sql`create table claim_line (
 		claim_id integer not null references claim(id) on delete cascade,
-		order_line_id integer not null references order_line(id),
+		order_line_id integer not null references order_line(id) on delete cascade,
 		dead_count integer not null check (dead_count >= 1),
 		primary key (claim_id, order_line_id)
 	)`,

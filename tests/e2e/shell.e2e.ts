@@ -20,7 +20,7 @@ test('the style page lists the components', async ({ page }, testInfo) => {
 	await expect(page.getByRole('heading', { level: 1, name: 'Hatchlot style' })).toBeVisible();
 	// Every state badge carries its word, never colour alone.
 	for (const word of ['resting', 'yielded', 'cleared', 'weather hold', 'paused']) {
-		await expect(page.getByText(word, { exact: true }).first()).toBeVisible();
+		await expect(page.getByText(new RegExp(`^${word}$`, 'i')).first()).toBeVisible();
 	}
 	// Nothing may force sideways scrolling of the whole page at phone width.
 	const overflow = await page.evaluate(

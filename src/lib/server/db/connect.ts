@@ -19,7 +19,10 @@ export function parseInt8(value: string): number {
 }
 
 // Dates stay 'YYYY-MM-DD' text: a JS Date would move them with the server's zone.
-const dateArrayParser = types.getTypeParser(1009); // text[]
+const TEXT_ARRAY = 1009;
+const dateArrayParser = types.getTypeParser(
+	TEXT_ARRAY as Parameters<typeof types.getTypeParser>[0]
+);
 function getTypeParser(oid: number, format?: 'text' | 'binary') {
 	if (oid === INT8) return parseInt8;
 	if (oid === DATE) return (value: string) => value;

@@ -16,7 +16,7 @@ export type DateOnly = string;
 /** numeric: exact decimal text; parse it deliberately, never through a float by accident. */
 export type Numeric = ColumnType<string, string | number, string | number>;
 type Id = GeneratedAlways<number>;
-type CreatedAt = Generated<Date>;
+type CreatedAt = ColumnType<Date, Date | string | undefined, Date | string>;
 type UpdatedAt = ColumnType<Date, Date | string | undefined, Date | string>;
 
 export type Role = 'customer' | 'keeper' | 'admin';

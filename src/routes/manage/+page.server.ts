@@ -1,0 +1,16 @@
+import { error } from '@sveltejs/kit';
+import { env } from '$env/dynamic/private';
+import { getDb } from '$lib/server/db';
+import { loadKeeperOverview } from '$lib/server/backoffice/overview';
+import type { PageServerLoad } from './$types';
+
+export const load: PageServerLoad = async () => {
+	try {
+		return {
+			overview: await loadKeeperOverview(getDb(), { fallbackTimeZone: env.SHOP_TIME_ZONE })
+		};
+	} catch (cause) {
+		console.error('[manage] overview unavailable', cause);
+		error(503, 'The stock ledger cannot be reached just now. Check that PostgreSQL is running.');
+	}
+};
