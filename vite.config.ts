@@ -5,6 +5,8 @@ import { defineConfig } from 'vitest/config';
 export default defineConfig({
 	plugins: [tailwindcss(), sveltekit()],
 	server: { host: '127.0.0.1' },
+	// The bundler's plugin-timing report is noise in every start-up log.
+	build: { rolldownOptions: { checks: { bundlerTimings: false } } },
 	test: {
 		projects: [
 			{

@@ -15,3 +15,10 @@ export function getDb(): Db {
 }
 
 export type { Db } from './connect';
+
+/** Ends the pool so the process can exit at once on shutdown. */
+export async function closeDb(): Promise<void> {
+	const open = instance;
+	instance = undefined;
+	await open?.destroy();
+}
