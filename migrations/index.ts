@@ -2,7 +2,9 @@
 // under tsx, Vitest and the bundler; a test checks it matches the folder.
 import type { Migration } from 'kysely';
 import * as dataModelV1 from './2026-12-01T2200_data_model_v1';
+import * as accountsMailLimits from './2026-12-01T2300_accounts_mail_limits';
 
 export const migrations: Record<string, Migration> = {
-	'2026-12-01T2200_data_model_v1': dataModelV1
+	'2026-12-01T2200_data_model_v1': dataModelV1,
+	'2026-12-01T2300_accounts_mail_limits': accountsMailLimits
 };

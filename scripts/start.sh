@@ -6,14 +6,17 @@ source "$(dirname "${BASH_SOURCE[0]}")/lib.sh"
 load_env
 started_at=$(date +%s)
 
-if port_in_use "$PORT"; then
-	die "Port $PORT on 127.0.0.1 is already taken (is Hatchlot running in another terminal?); stop that program or set PORT in .env."
-fi
+for taken in "$PORT" "$MAIL_CATCHER_SMTP_PORT" "$MAIL_CATCHER_HTTP_PORT"; do
+	if port_in_use "$taken"; then
+		die "Port $taken on 127.0.0.1 is already taken (is Hatchlot running in another terminal?); stop that program or change the port in .env."
+	fi
+done
 
 ensure_node_modules
 
 STARTED_DB=0
 APP_PID=""
+FAKE_PIDS=()
 cleanup() {
 	trap - INT TERM EXIT
 	if [ -n "$APP_PID" ] && kill -0 "$APP_PID" 2>/dev/null; then
@@ -21,6 +24,10 @@ cleanup() {
 		kill "$APP_PID" 2>/dev/null || true
 		wait "$APP_PID" 2>/dev/null || true
 	fi
+	for pid in "${FAKE_PIDS[@]}"; do
+		kill "$pid" 2>/dev/null || true
+		wait "$pid" 2>/dev/null || true
+	done
 	# Stop services only if this run started them; leave what was already running.
 	[ "$STARTED_DB" = "1" ] && bash scripts/db.sh stop || true
 }
@@ -39,15 +46,17 @@ npx tsx seed/run.ts --if-empty
 say "building the production app…"
 npx vite build --logLevel warn
 
+# Local stand-ins for hosted services; they live in tests/fakes and never ship in the build.
+say "starting the local mail catcher on 127.0.0.1:$MAIL_CATCHER_SMTP_PORT (outbox at /outbox)…"
+node_modules/.bin/tsx tests/fakes/mail-catcher.ts &
+FAKE_PIDS+=($!)
+wait_for_port "$MAIL_CATCHER_HTTP_PORT" "${FAKE_PIDS[-1]}" "the mail catcher"
+
 say "starting the app on http://$HOST:$PORT …"
 node build &
 APP_PID=$!
 
-for _ in $(seq 1 100); do
-	if port_in_use "$PORT"; then break; fi
-	kill -0 "$APP_PID" 2>/dev/null || die "The app exited during start-up; its messages are above."
-	sleep 0.2
-done
+wait_for_port "$PORT" "$APP_PID" "the app"
 
 say "ready in $(( $(date +%s) - started_at )) s: http://$HOST:$PORT"
 npx tsx scripts/print-demo-accounts.ts

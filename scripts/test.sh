@@ -48,7 +48,8 @@ step "vitest (unit and integration)"
 npx vitest run
 
 step "playwright (Chromium at 390 px and 1280 px)"
-mkdir -p tests/artifacts
+mkdir -p tests/artifacts .data
+rm -f .data/e2e-caught.jsonl
 npx playwright test -c tests/e2e/playwright.config.ts
 
 say "all tests passed in $(( $(date +%s) - started_at )) s"

@@ -12,6 +12,9 @@ export interface DemoAccount {
 	climate?: DemoClimate;
 }
 
+/** The one password of every demo account: for the local demo only, printed by npm start. */
+export const DEMO_PASSWORD = 'leaf litter and loam';
+
 export const DEMO_ACCOUNTS: ReadonlyArray<DemoAccount> = [
 	{ email: 'wren@mossback.example.com', name: 'Wren Calloway', role: 'admin' },
 	{ email: 'teo@mossback.example.com', name: 'Teo Marsh', role: 'keeper' },

@@ -3,7 +3,13 @@
 // if missing, and child rows are added only under parents inserted by this same run.
 import type { Kysely, Transaction } from 'kysely';
 import type { Database } from '../src/lib/server/db/schema';
-import { DEMO_ACCOUNTS, DEMO_JOINED_DAYS_AGO, DEMO_SHIP_ADDRESSES } from './accounts';
+import { hashPassword } from '../src/lib/server/auth/passwords';
+import {
+	DEMO_ACCOUNTS,
+	DEMO_JOINED_DAYS_AGO,
+	DEMO_PASSWORD,
+	DEMO_SHIP_ADDRESSES
+} from './accounts';
 import { addDays, assertIsoDate, instantOn } from './dates';
 import { buildSales, DEMO_SHOP } from './sales';
 import { DEMO_SPECIES, HOUSE_MIX } from './species';
@@ -14,6 +20,7 @@ export const DEMO_TABLES = [
 	'User',
 	'user_role',
 	'user_profile',
+	'user_password',
 	'shop_setting',
 	'species',
 	'substrate_recipe',
@@ -127,6 +134,20 @@ async function writeDemo(
 			.returning('user_id')
 			.execute();
 		counts.user_role = roles.length;
+		// Every demo account signs in with the one demo password (README); hashed once, it keeps the seed quick.
+		const passwordHash = await hashPassword(DEMO_PASSWORD);
+		const passwords = await trx
+			.insertInto('user_password')
+			.values(
+				newAccounts.map((a) => ({
+					user_id: required(userIdByEmail, a.email, 'user'),
+					password_hash: passwordHash,
+					updated_at: joinedAt(a.email)
+				}))
+			)
+			.returning('user_id')
+			.execute();
+		counts.user_password = passwords.length;
 	}
 	const newCustomers = newAccounts.filter((a) => a.role === 'customer' && a.zip);
 	if (newCustomers.length > 0) {

@@ -1,10 +1,91 @@
-import type { Handle } from '@sveltejs/kit';
-import { closeDb } from '$lib/server/db';
+import { SvelteKitAuth } from '@auth/sveltekit';
+import {
+	json,
+	redirect,
+	type Handle,
+	type HandleServerError,
+	type ServerInit
+} from '@sveltejs/kit';
+import { sequence } from '@sveltejs/kit/hooks';
+import { authSettings } from '$lib/server/auth';
+import { authConfig } from '$lib/server/auth/authjs';
+import { roleAtLeast, requiredRoleForPath } from '$lib/server/auth/roles';
+import { resolveSession, sessionCookieName } from '$lib/server/auth/sessions';
+import { closeDb, getDb } from '$lib/server/db';
+import { startJobs, type JobRunner } from '$lib/server/jobs';
+import { jobsOptionsFromEnv } from '$lib/server/jobs/env';
 
-// adapter-node emits this on SIGINT/SIGTERM once requests have drained; an open
-// pg pool would otherwise keep the process alive until its idle timeout.
+let jobs: JobRunner | undefined;
+
+// The mail worker and other jobs run in the server process; startJobs keeps
+// retrying in the background while PostgreSQL is down, so start-up never waits.
+export const init: ServerInit = async () => {
+	jobs = await startJobs(jobsOptionsFromEnv());
+};
+
+// adapter-node emits this on SIGINT/SIGTERM once requests have drained; open
+// pools would otherwise keep the process alive until their idle timeouts.
 process.on('sveltekit:shutdown', () => {
-	void closeDb();
+	void (async () => {
+		await jobs?.stop();
+		await closeDb();
+	})();
 });
 
-export const handle: Handle = async ({ event, resolve }) => resolve(event);
+// Auth.js answers its own /auth/* endpoints (the sign-in link callback among them).
+const { handle: authJsHandle } = SvelteKitAuth(async () => authConfig(authSettings()));
+
+/** Who is asking, read on every request from the session and our user_role table. */
+const resolveUser: Handle = async ({ event, resolve }) => {
+	event.locals.user = null;
+	event.locals.sessionToken = null;
+	const cookieName = sessionCookieName(authSettings().secure);
+	const token = event.cookies.get(cookieName);
+	if (token) {
+		try {
+			event.locals.user = await resolveSession(getDb(), token);
+		} catch (failure) {
+			// Database down: treat the request as signed out; /api/health tells the story.
+			console.warn(
+				`[auth] session lookup failed: ${failure instanceof Error ? failure.message : failure}`
+			);
+		}
+		if (event.locals.user) event.locals.sessionToken = token;
+		else event.cookies.delete(cookieName, { path: '/' });
+	}
+	return resolve(event);
+};
+
+/**
+ * The first gate. Loads and actions check the role again themselves; this one
+ * makes sure no API call, and no form post (actions run before loads), gets
+ * through a route that forgot to.
+ */
+const gate: Handle = async ({ event, resolve }) => {
+	const need = requiredRoleForPath(event.url.pathname);
+	if (need === 'public') return resolve(event);
+	const user = event.locals.user;
+	const isApi = event.url.pathname.startsWith('/api/');
+	const reading = event.request.method === 'GET' || event.request.method === 'HEAD';
+	if (!user) {
+		if (isApi) return json({ message: 'Sign in first.' }, { status: 401 });
+		if (!reading) return new Response('Sign in first.', { status: 401 });
+		redirect(303, `/signin?next=${encodeURIComponent(event.url.pathname + event.url.search)}`);
+	}
+	if (need !== 'signed_in' && !roleAtLeast(user.role, need)) {
+		if (isApi) return json({ message: 'Not allowed.' }, { status: 403 });
+		// A page renders its own 403 from its load; a form post is refused here.
+		if (!reading) return new Response('Not allowed.', { status: 403 });
+	}
+	return resolve(event);
+};
+
+export const handle: Handle = sequence(authJsHandle, resolveUser, gate);
+
+// Unexpected errors: log the detail on the server, show a plain sentence.
+export const handleError: HandleServerError = ({ error, status }) => {
+	if (status !== 404) console.error(error);
+	return {
+		message: status === 404 ? 'Not found.' : 'Something went wrong on our side. Please try again.'
+	};
+};

@@ -4,6 +4,10 @@ import { defineConfig, devices } from '@playwright/test';
 
 const port = Number(process.env.E2E_PORT ?? 3197);
 const baseURL = `http://127.0.0.1:${port}`;
+// The e2e run's own mail catcher, on ports apart from the one npm start uses.
+const catcherSmtp = 2526;
+const catcherHttp = 2581;
+export const outboxApi = `http://127.0.0.1:${catcherHttp}`;
 
 export default defineConfig({
 	testDir: '.',
@@ -38,17 +42,35 @@ export default defineConfig({
 			use: { ...devices['Desktop Chrome'], viewport: { width: 1280, height: 900 } }
 		}
 	],
-	webServer: {
-		command: 'node build',
-		cwd: '../..',
-		url: `${baseURL}/api/health`,
-		reuseExistingServer: false,
-		timeout: 60_000,
-		env: {
-			HOST: '127.0.0.1',
-			PORT: String(port),
-			ORIGIN: baseURL,
-			DATABASE_URL: process.env.DATABASE_URL ?? ''
+	webServer: [
+		{
+			command: 'node_modules/.bin/tsx tests/fakes/mail-catcher.ts',
+			cwd: '../..',
+			url: `${outboxApi}/health`,
+			reuseExistingServer: false,
+			timeout: 30_000,
+			env: {
+				MAIL_CATCHER_SMTP_PORT: String(catcherSmtp),
+				MAIL_CATCHER_HTTP_PORT: String(catcherHttp),
+				MAIL_CATCHER_STORE: '.data/e2e-caught.jsonl'
+			}
+		},
+		{
+			command: 'node build',
+			cwd: '../..',
+			url: `${baseURL}/api/health`,
+			reuseExistingServer: false,
+			timeout: 60_000,
+			env: {
+				HOST: '127.0.0.1',
+				PORT: String(port),
+				ORIGIN: baseURL,
+				DATABASE_URL: process.env.DATABASE_URL ?? '',
+				AUTH_SECRET: process.env.AUTH_SECRET ?? 'e2e-only-secret-0123456789abcdef0123456789',
+				SMTP_URL: `smtp://127.0.0.1:${catcherSmtp}`,
+				MAIL_CATCHER_URL: outboxApi,
+				SHOP_TIME_ZONE: 'America/New_York'
+			}
 		}
-	}
+	]
 });

@@ -1,4 +1,5 @@
 import { expect, test } from '@playwright/test';
+import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../seed/accounts';
 import { seededSpecies } from './demo-facts';
 
 const artifacts = 'tests/artifacts';
@@ -16,7 +17,15 @@ test('the home page shows every seeded species', async ({ page }, testInfo) => {
 });
 
 test('the style page lists the components', async ({ page }, testInfo) => {
+	const keeper = DEMO_ACCOUNTS.find((a) => a.role === 'keeper')!;
 	await page.goto('/manage/style');
+	// The back office asks who is there first.
+	await expect(page).toHaveURL(/\/signin\?next=%2Fmanage%2Fstyle/);
+	const form = page.locator('form[action="?/password"]');
+	await form.getByLabel('E-mail').fill(keeper.email);
+	await form.getByLabel('Password').fill(DEMO_PASSWORD);
+	await form.getByRole('button', { name: 'Sign in' }).click();
+	await expect(page).toHaveURL(/\/manage\/style$/);
 	await expect(page.getByRole('heading', { level: 1, name: 'Hatchlot style' })).toBeVisible();
 	// Every state badge carries its word, never colour alone.
 	for (const word of ['resting', 'yielded', 'cleared', 'weather hold', 'paused']) {

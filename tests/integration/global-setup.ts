@@ -2,6 +2,7 @@
 // integration file then copies it (tests/integration/support/databases.ts).
 import { createDb } from '../../src/lib/server/db/connect';
 import { assertMigrated, migratorFor } from '../../src/lib/server/db/migrator';
+import { installJobSchema } from '../../src/lib/server/jobs';
 import { recreateDatabase } from './support/databases';
 import { TEMPLATE_DATABASE, testClusterUrl } from './support/env';
 
@@ -14,4 +15,6 @@ export default async function setup(): Promise<void> {
 		// No connection may stay open on a template that others copy.
 		await db.destroy();
 	}
+	// pg-boss's tables and our queues, so queueMail works in every copy.
+	await installJobSchema(testClusterUrl(TEMPLATE_DATABASE));
 }

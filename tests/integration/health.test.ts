@@ -1,22 +1,10 @@
 // /api/health on the production build: 503 while PostgreSQL is unreachable,
 // then 200 by itself once it comes up, with no restart of the app.
-import { spawn, type ChildProcess } from 'node:child_process';
-import { existsSync } from 'node:fs';
 import net from 'node:net';
-import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { LATEST_MIGRATION } from '../../src/lib/server/db/migrator';
+import { freePort, startApp, type RunningApp } from './support/app';
 import { scratchDatabase, type ScratchDatabase } from './support/databases';
-
-const BUILD = path.resolve(import.meta.dirname, '../../build/index.js');
-
-async function freePort(): Promise<number> {
-	const server = net.createServer();
-	await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
-	const { port } = server.address() as net.AddressInfo;
-	await new Promise((resolve) => server.close(resolve));
-	return port;
-}
 
 /** A TCP relay that stands in for "the database host coming up". */
 function relayTo(targetPort: number): net.Server {
@@ -56,32 +44,21 @@ async function waitFor<T>(
 
 describe('GET /api/health', () => {
 	let scratch: ScratchDatabase;
-	let app: ChildProcess;
+	let app: RunningApp;
 	let appPort: number;
 	let dbPort: number;
 	let relay: net.Server | undefined;
 
 	beforeAll(async () => {
-		if (!existsSync(BUILD))
-			throw new Error('build/index.js is missing: run `npm run build` first (npm test does).');
 		scratch = await scratchDatabase();
-		appPort = await freePort();
 		dbPort = await freePort();
 		const url = new URL(scratch.url);
 		url.port = String(dbPort);
-		app = spawn(process.execPath, [BUILD], {
-			env: {
-				...process.env,
-				HOST: '127.0.0.1',
-				PORT: String(appPort),
-				ORIGIN: `http://127.0.0.1:${appPort}`,
-				DATABASE_URL: url.toString()
-			},
-			stdio: 'ignore'
-		});
+		app = await startApp({ DATABASE_URL: url.toString() });
+		appPort = app.port;
 	});
 	afterAll(async () => {
-		app?.kill('SIGTERM');
+		await app?.stop();
 		await new Promise((resolve) => (relay ? relay.close(resolve) : resolve(undefined)));
 		await scratch?.drop();
 	});

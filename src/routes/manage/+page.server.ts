@@ -2,9 +2,11 @@ import { error } from '@sveltejs/kit';
 import { env } from '$env/dynamic/private';
 import { getDb } from '$lib/server/db';
 import { loadKeeperOverview } from '$lib/server/backoffice/overview';
+import { requireRole } from '$lib/server/auth/guard';
 import type { PageServerLoad } from './$types';
 
-export const load: PageServerLoad = async () => {
+export const load: PageServerLoad = async (event) => {
+	requireRole(event, 'keeper');
 	try {
 		return {
 			overview: await loadKeeperOverview(getDb(), { fallbackTimeZone: env.SHOP_TIME_ZONE })

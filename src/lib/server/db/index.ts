@@ -1,24 +1,37 @@
 // The app's one database handle, opened lazily so the server starts (and
 // answers /api/health with 503) even while PostgreSQL is still down.
+import { Kysely, PostgresDialect } from 'kysely';
+import type pg from 'pg';
 import { env } from '$env/dynamic/private';
-import { createDb, type Db } from './connect';
+import { createPool, type Db } from './connect';
+import type { Database } from './schema';
 
-let instance: Db | undefined;
+let instance: { db: Db; pool: pg.Pool } | undefined;
 
-export function getDb(): Db {
+function open(): { db: Db; pool: pg.Pool } {
 	if (!instance) {
 		const url = env.DATABASE_URL;
 		if (!url) throw new Error('DATABASE_URL is not set; copy .env.example to .env');
-		instance = createDb(url);
+		const pool = createPool(url);
+		instance = { pool, db: new Kysely<Database>({ dialect: new PostgresDialect({ pool }) }) };
 	}
 	return instance;
 }
 
-export type { Db } from './connect';
+export function getDb(): Db {
+	return open().db;
+}
+
+/** The same pool, for libraries that take a pg pool (the rate limiter). */
+export function getPool(): pg.Pool {
+	return open().pool;
+}
 
 /** Ends the pool so the process can exit at once on shutdown. */
 export async function closeDb(): Promise<void> {
-	const open = instance;
+	const current = instance;
 	instance = undefined;
-	await open?.destroy();
+	await current?.db.destroy();
 }
+
+export type { Db } from './connect';

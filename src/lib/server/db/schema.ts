@@ -502,6 +502,36 @@ export interface AuditLogTable {
 	detail: Generated<unknown>;
 	created_at: CreatedAt;
 }
+export type MailStatus = 'queued' | 'sent' | 'failed';
+export interface OutgoingMailTable {
+	id: Id;
+	kind: string;
+	to_address: string;
+	subject: string;
+	html_body: string;
+	text_body: string;
+	status: Generated<MailStatus>;
+	attempts: Generated<number>;
+	last_error: string | null;
+	created_at: CreatedAt;
+	sent_at: Timestamp | null;
+	updated_at: UpdatedAt;
+}
+/** Written only by rate-limiter-flexible. */
+export interface RateLimitTable {
+	key: string;
+	points: number;
+	expire: number | null;
+}
+export type AccountTokenPurpose = 'verify_email' | 'reset_password';
+export interface AccountTokenTable {
+	token_hash: string;
+	purpose: AccountTokenPurpose;
+	user_id: string;
+	expires_at: Timestamp;
+	used_at: Timestamp | null;
+	created_at: CreatedAt;
+}
 /** Kysely's own bookkeeping, read by the health route. */
 export interface KyselyMigrationTable {
 	name: string;
@@ -546,6 +576,9 @@ export interface Database {
 	claim_line: ClaimLineTable;
 	waitlist_entry: WaitlistEntryTable;
 	audit_log: AuditLogTable;
+	outgoing_mail: OutgoingMailTable;
+	rate_limit: RateLimitTable;
+	account_token: AccountTokenTable;
 	kysely_migration: KyselyMigrationTable;
 }
 

@@ -1,0 +1,278 @@
+// Background jobs on pg-boss: the mail worker and the sweeper that re-enqueues mail
+// whose job went missing. Call startJobs once per process (hooks.server.ts `init`);
+// it never throws for an unreachable database but keeps trying in the background.
+//
+// No $env or $app imports: integration tests start jobs with their own values.
+import type { Kysely } from 'kysely';
+import pg from 'pg';
+import PgBoss from 'pg-boss';
+import { createDb } from '../db/connect';
+import type { Database } from '../db/schema';
+import {
+	closeMailTransports,
+	describeSendError,
+	MailDeliveryError,
+	markOutgoingMailFailed,
+	sendOutgoingMail,
+	sweepUnsentMail
+} from '../mail';
+import { describeSmtpUrl, mailConfigFrom, type MailConfig } from '../mail/config';
+import {
+	JOB_SCHEMA,
+	MAIL_SEND_QUEUE,
+	MAIL_SWEEP_QUEUE,
+	setRunningBoss,
+	type MailSendJob
+} from './boss';
+
+export { getBoss, JOB_SCHEMA, MAIL_SEND_QUEUE, MAIL_SWEEP_QUEUE } from './boss';
+
+export interface JobsOptions {
+	/** PostgreSQL of the app; pg-boss keeps its tables in the `pgboss` schema there. */
+	connectionString: string;
+	smtpUrl: string;
+	mailFrom: string;
+	/** Retries after the first failed send (5): six attempts in all. */
+	mailRetryLimit?: number;
+	/** Seconds before the first retry (2); doubled for each next one while backoff is on. */
+	mailRetryDelaySeconds?: number;
+	mailRetryBackoff?: boolean;
+	/** How often an idle mail worker asks for work (2 s); pg-boss allows 0.5 at the least. */
+	pollingIntervalSeconds?: number;
+	/** Seconds between start attempts while PostgreSQL is unreachable (5). */
+	startRetrySeconds?: number;
+	/** Where the one-line reports go; console.warn unless given. */
+	log?: (line: string) => void;
+}
+
+export interface JobRunner {
+	/** Resolves once pg-boss is started and the workers are polling. */
+	readonly ready: Promise<void>;
+	isStarted(): boolean;
+	/** Lets a send in progress finish (up to 10 s), then closes every connection. */
+	stop(): Promise<void>;
+}
+
+/** The cron of the sweep; every 5 minutes is well inside the 10 minutes a row may wait. */
+const SWEEP_CRON = '*/5 * * * *';
+
+let active: JobRunner | undefined;
+
+interface Started {
+	boss: PgBoss;
+	pool: pg.Pool;
+	db: Kysely<Database>;
+}
+
+/** One line for a failed start; "localhost" refusing on both IPv4 and IPv6 is an AggregateError with no message. */
+function whyItFailed(error: unknown): string {
+	if (error instanceof AggregateError && !error.message) return whyItFailed(error.errors[0]);
+	if (error instanceof Error)
+		return error.message || (error as { code?: string }).code || error.name;
+	return String(error);
+}
+
+/** One line per distinct message per minute: a dropped database must not flood the log. */
+function throttled(log: (line: string) => void): (line: string) => void {
+	const lastSaid = new Map<string, number>();
+	return (line) => {
+		const now = Date.now();
+		if ((lastSaid.get(line) ?? 0) > now - 60_000) return;
+		lastSaid.set(line, now);
+		log(line);
+	};
+}
+
+async function deliverMail(
+	db: Kysely<Database>,
+	mail: MailConfig,
+	jobs: PgBoss.JobWithMetadata<MailSendJob>[],
+	log: (line: string) => void
+): Promise<void> {
+	for (const job of jobs) {
+		const id = job.data.outgoingMailId;
+		try {
+			await sendOutgoingMail(db, id, mail);
+		} catch (error) {
+			const reason = error instanceof MailDeliveryError ? error.reason : describeSendError(error);
+			// retryCount counts retries already made: equal to the limit means no attempt is left.
+			const lastAttempt = job.retryCount >= job.retryLimit;
+			if (lastAttempt) await markOutgoingMailFailed(db, id, reason);
+			log(
+				`[mail] #${id}: attempt ${job.retryCount + 1} of ${job.retryLimit + 1} failed (${reason})` +
+					(lastAttempt ? '; marked failed' : '; it will be retried')
+			);
+			throw error;
+		}
+	}
+}
+
+/** The queues and their retry rules; createQueue leaves an existing queue alone, so changes go through updateQueue. */
+async function createQueues(
+	boss: PgBoss,
+	options: Pick<JobsOptions, 'mailRetryLimit' | 'mailRetryDelaySeconds' | 'mailRetryBackoff'>
+): Promise<void> {
+	const mailQueue: PgBoss.Queue = {
+		name: MAIL_SEND_QUEUE,
+		retryLimit: options.mailRetryLimit ?? 5,
+		retryDelay: options.mailRetryDelaySeconds ?? 2,
+		retryBackoff: options.mailRetryBackoff ?? true,
+		// Longer than nodemailer's timeouts together, so a hung relay fails the attempt first.
+		expireInSeconds: 120
+	};
+	await boss.createQueue(MAIL_SEND_QUEUE, mailQueue);
+	await boss.updateQueue(MAIL_SEND_QUEUE, mailQueue);
+	const sweepQueue: PgBoss.Queue = {
+		name: MAIL_SWEEP_QUEUE,
+		policy: 'singleton',
+		retryLimit: 0,
+		expireInSeconds: 300
+	};
+	await boss.createQueue(MAIL_SWEEP_QUEUE, sweepQueue);
+}
+
+/**
+ * Installs pg-boss's tables and our queues without starting any worker, so mail
+ * can be queued from the first request on. Run by scripts/migrate.ts after the
+ * migrations, and by the test setup on its template database.
+ */
+export async function installJobSchema(connectionString: string): Promise<void> {
+	const boss = new PgBoss({
+		connectionString,
+		schema: JOB_SCHEMA,
+		supervise: false,
+		schedule: false,
+		max: 2
+	});
+	boss.on('error', (error) => console.warn(`[jobs] ${error.message}`));
+	await boss.start();
+	try {
+		await createQueues(boss, {});
+	} finally {
+		await boss.stop({ graceful: false, wait: true });
+	}
+}
+
+async function startOnce(
+	options: JobsOptions,
+	mail: MailConfig,
+	log: (line: string) => void
+): Promise<Started> {
+	// Our own pool (not pg-boss's) so a failed start can always be closed again.
+	const pool = new pg.Pool({
+		connectionString: options.connectionString,
+		max: 4,
+		connectionTimeoutMillis: 3_000,
+		idleTimeoutMillis: 30_000,
+		application_name: 'hatchlot-jobs'
+	});
+	const noisy = throttled(log);
+	pool.on('error', (error) => noisy(`[jobs] idle connection lost: ${error.message}`));
+	const db = createDb(options.connectionString, 2);
+	const boss = new PgBoss({
+		db: { executeSql: (text, values) => pool.query(text, values) },
+		schema: JOB_SCHEMA
+	});
+	boss.on('error', (error) => noisy(`[jobs] ${error.message}`));
+	try {
+		await boss.start();
+		await createQueues(boss, options);
+		await boss.work<MailSendJob>(
+			MAIL_SEND_QUEUE,
+			{
+				includeMetadata: true,
+				batchSize: 1,
+				pollingIntervalSeconds: options.pollingIntervalSeconds ?? 2
+			},
+			(jobs) => deliverMail(db, mail, jobs, log)
+		);
+		await boss.work(MAIL_SWEEP_QUEUE, { pollingIntervalSeconds: 30 }, async () => {
+			const requeued = await sweepUnsentMail(db);
+			if (requeued.length)
+				log(`[mail] sweep re-enqueued ${requeued.map((id) => `#${id}`).join(', ')}`);
+		});
+		await boss.schedule(MAIL_SWEEP_QUEUE, SWEEP_CRON);
+		return { boss, pool, db };
+	} catch (error) {
+		await boss.stop({ graceful: false, wait: true }).catch(() => undefined);
+		await pool.end().catch(() => undefined);
+		await db.destroy().catch(() => undefined);
+		throw error;
+	}
+}
+
+/**
+ * Starts pg-boss (schema `pgboss`), the `mail-send` queue (5 retries, 2 s apart,
+ * doubling) with its worker, and the 5-minute sweep. Resolves with the runner after
+ * the first attempt, whether or not it worked; `ready` resolves once a start has
+ * succeeded. While PostgreSQL cannot be reached it logs one line per failed attempt
+ * and tries again every `startRetrySeconds`, without throwing.
+ * A second call while a runner is active returns that runner.
+ */
+export async function startJobs(options: JobsOptions): Promise<JobRunner> {
+	if (active) return active;
+	if (!options.connectionString) throw new Error('startJobs needs a connectionString');
+	const mail = mailConfigFrom({ SMTP_URL: options.smtpUrl, MAIL_FROM: options.mailFrom });
+	const log = options.log ?? ((line: string) => console.warn(line));
+	const retryMs = (options.startRetrySeconds ?? 5) * 1000;
+
+	let started: Started | undefined;
+	let stopping = false;
+	let retryTimer: NodeJS.Timeout | undefined;
+	let attempt: Promise<void> | undefined;
+	let markReady: () => void = () => undefined;
+	const ready = new Promise<void>((resolve) => (markReady = resolve));
+
+	const tryStart = async (): Promise<void> => {
+		try {
+			const fresh = await startOnce(options, mail, log);
+			if (stopping) {
+				await fresh.boss.stop({ graceful: false, wait: true });
+				await fresh.pool.end();
+				await fresh.db.destroy();
+				return;
+			}
+			started = fresh;
+			setRunningBoss(fresh.boss);
+			log(`[jobs] started: mail goes to ${describeSmtpUrl(mail.smtpUrl)} from ${mail.mailFrom}`);
+			markReady();
+			// Whatever was stranded while this process was down goes out now, not in 5 minutes.
+			const requeued = await sweepUnsentMail(fresh.db).catch((error: Error) => {
+				log(`[mail] start-up sweep failed: ${error.message}`);
+				return [];
+			});
+			if (requeued.length) log(`[mail] re-enqueued ${requeued.map((id) => `#${id}`).join(', ')}`);
+		} catch (error) {
+			if (stopping) return;
+			log(`[jobs] could not start (${whyItFailed(error)}); trying again in ${retryMs / 1000} s`);
+			retryTimer = setTimeout(() => {
+				attempt = tryStart();
+			}, retryMs);
+		}
+	};
+
+	const runner: JobRunner = {
+		ready,
+		isStarted: () => started !== undefined,
+		stop: async () => {
+			if (stopping) return;
+			stopping = true;
+			clearTimeout(retryTimer);
+			await attempt;
+			const current = started;
+			started = undefined;
+			if (current) {
+				setRunningBoss(undefined);
+				await current.boss.stop({ graceful: true, wait: true, timeout: 10_000 });
+				await current.pool.end();
+				await current.db.destroy();
+			}
+			closeMailTransports();
+			if (active === runner) active = undefined;
+		}
+	};
+	active = runner;
+	attempt = tryStart();
+	await attempt;
+	return runner;
+}

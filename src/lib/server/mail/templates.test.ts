@@ -1,0 +1,137 @@
+import { describe, expect, it } from 'vitest';
+import {
+	MAIL_KINDS,
+	checkedLink,
+	escapeHtml,
+	formatLifetime,
+	renderMail,
+	type MailMessage
+} from './templates';
+
+const shop = { shopName: 'Mossback Hollow Inverts' };
+const link = 'https://shop.example.com/account/verify?token=9f2c&next=%2Forders';
+
+const oneOfEach: MailMessage[] = [
+	{ kind: 'verify_email', to: 'ada@example.com', name: 'Ada', url: link, expiresInMinutes: 1440 },
+	{ kind: 'sign_in_link', to: 'ada@example.com', url: link, expiresInMinutes: 15 },
+	{ kind: 'password_reset', to: 'ada@example.com', name: 'Ada', url: link, expiresInMinutes: 60 },
+	{ kind: 'account_exists', to: 'ada@example.com', url: link, expiresInMinutes: 60 },
+	{ kind: 'password_changed', to: 'ada@example.com', name: 'Ada' }
+];
+
+/** Tags as a mail client would read them: "<" followed by a letter, "/" or "!". */
+const HTML_TAG = /<[a-z!/][^>]*>/i;
+
+describe('renderMail', () => {
+	it('renders every kind', () => {
+		expect(oneOfEach.map((message) => message.kind).sort()).toEqual([...MAIL_KINDS].sort());
+		for (const message of oneOfEach) {
+			const mail = renderMail(message, shop);
+			expect(mail.subject).toContain('Mossback Hollow Inverts');
+			expect(mail.html).toMatch(/^<!doctype html>/);
+			expect(mail.text.length).toBeGreaterThan(80);
+		}
+	});
+
+	it('escapes a name with a script in it, in the HTML part', () => {
+		const mail = renderMail(
+			{
+				kind: 'verify_email',
+				to: 'mallory@example.test',
+				name: '<script>alert("x")</script>',
+				url: link,
+				expiresInMinutes: 1440
+			},
+			shop
+		);
+		expect(mail.html).not.toContain('<script>');
+		expect(mail.html).toContain('&lt;script&gt;alert(&quot;x&quot;)&lt;/script&gt;');
+		expect(mail.text).toContain('Hello <script>alert("x")</script>,');
+	});
+
+	it('escapes the shop name and keeps a stored name on one line', () => {
+		const mail = renderMail(
+			{ kind: 'password_changed', to: 'ada@example.com', name: 'Ada\r\nBcc: x@example.test' },
+			{ shopName: 'Roaches & <Co>' }
+		);
+		expect(mail.html).toContain('Roaches &amp; &lt;Co&gt;');
+		expect(mail.html).not.toContain('<Co>');
+		expect(mail.text).toContain('Hello Ada Bcc: x@example.test,');
+		expect(mail.subject).toBe('Your Roaches & <Co> password was changed');
+	});
+
+	it('puts the link in both parts, the HTML one escaped in its href', () => {
+		for (const message of oneOfEach) {
+			if (!('url' in message)) continue;
+			const mail = renderMail(message, shop);
+			expect(mail.text).toContain(link);
+			expect(mail.html).toContain(`href="${link.replaceAll('&', '&amp;')}"`);
+			expect(mail.html).not.toContain(link); // the raw "&" never appears unescaped
+		}
+	});
+
+	it('writes a text part with no HTML tags in it', () => {
+		for (const message of oneOfEach) {
+			const mail = renderMail(message, shop);
+			expect(mail.text).not.toMatch(HTML_TAG);
+			expect(mail.text).not.toContain('&amp;');
+		}
+	});
+
+	it('names the lifetime of each link in both parts', () => {
+		const cases: [MailMessage, string][] = [
+			[oneOfEach[0]!, '24 hours'],
+			[oneOfEach[1]!, '15 minutes'],
+			[oneOfEach[2]!, '1 hour'],
+			[oneOfEach[3]!, '1 hour']
+		];
+		for (const [message, words] of cases) {
+			const mail = renderMail(message, shop);
+			expect(mail.text).toContain(`expires in ${words}`);
+			expect(mail.html).toContain(words);
+		}
+	});
+
+	it('greets without a name when there is none', () => {
+		const mail = renderMail(
+			{ kind: 'password_reset', to: 'a@example.com', name: '  ', url: link, expiresInMinutes: 30 },
+			shop
+		);
+		expect(mail.text.startsWith('Hello,\n')).toBe(true);
+	});
+
+	it('refuses a link that is not a web address', () => {
+		expect(() =>
+			renderMail(
+				{
+					kind: 'sign_in_link',
+					to: 'a@example.com',
+					url: 'javascript:alert(1)',
+					expiresInMinutes: 15
+				},
+				shop
+			)
+		).toThrow(RangeError);
+		expect(() => checkedLink('/relative/path')).toThrow(RangeError);
+		expect(checkedLink('http://127.0.0.1:3000/x')).toBe('http://127.0.0.1:3000/x');
+	});
+});
+
+describe('helpers', () => {
+	it('escapes the five HTML specials', () => {
+		expect(escapeHtml(`<a href="x">Tom & Jo's</a>`)).toBe(
+			'&lt;a href=&quot;x&quot;&gt;Tom &amp; Jo&#39;s&lt;/a&gt;'
+		);
+	});
+
+	it('words a lifetime the way people say it', () => {
+		expect(formatLifetime(1)).toBe('1 minute');
+		expect(formatLifetime(15)).toBe('15 minutes');
+		expect(formatLifetime(90)).toBe('90 minutes');
+		expect(formatLifetime(120)).toBe('2 hours');
+		expect(formatLifetime(1440)).toBe('24 hours');
+		expect(formatLifetime(4320)).toBe('3 days');
+		expect(() => formatLifetime(0)).toThrow(RangeError);
+		expect(() => formatLifetime(2.5)).toThrow(RangeError);
+	});
+});

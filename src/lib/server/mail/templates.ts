@@ -1,0 +1,311 @@
+// The shop's e-mails, rendered to an HTML part and a plain-text part. Pure: no I/O and
+// no clock, so every word and every escape is checked by templates.test.ts.
+//
+// Mail clients ignore style sheets and web fonts unevenly, so the HTML is a single
+// table column with inline styles, and the same words are always in the text part.
+
+/** Every e-mail the shop sends, as the data it is rendered from. */
+export type MailMessage =
+	| {
+			kind: 'verify_email';
+			to: string;
+			name: string | null;
+			url: string;
+			expiresInMinutes: number;
+	  }
+	| { kind: 'sign_in_link'; to: string; url: string; expiresInMinutes: number }
+	| {
+			kind: 'password_reset';
+			to: string;
+			name: string | null;
+			url: string;
+			expiresInMinutes: number;
+	  }
+	/** Sent instead of a verification when the address already has an account; `url` resets its password. */
+	| { kind: 'account_exists'; to: string; url: string; expiresInMinutes: number }
+	| { kind: 'password_changed'; to: string; name: string | null };
+
+export type MailKind = MailMessage['kind'];
+
+export const MAIL_KINDS = [
+	'verify_email',
+	'sign_in_link',
+	'password_reset',
+	'account_exists',
+	'password_changed'
+] as const satisfies readonly MailKind[];
+
+export interface RenderedMail {
+	subject: string;
+	html: string;
+	text: string;
+}
+
+export interface MailShop {
+	/** The name the shop signs with, e.g. "Mossback Hollow Inverts". */
+	shopName: string;
+}
+
+// Hatchlot's tokens (tailwind.config.ts), repeated here because mail cannot load them.
+const look = {
+	page: '#faf7f0',
+	paper: '#fdfcf8',
+	rule: '#e6ddcb',
+	ink: '#24221d',
+	muted: '#6b6558',
+	moss: '#2f5227',
+	loam: '#6c533b',
+	font: "'Source Sans 3', 'Source Sans Pro', -apple-system, BlinkMacSystemFont, 'Segoe UI', Roboto, Helvetica, Arial, sans-serif"
+} as const;
+
+const HTML_ESCAPES: Record<string, string> = {
+	'&': '&amp;',
+	'<': '&lt;',
+	'>': '&gt;',
+	'"': '&quot;',
+	"'": '&#39;'
+};
+
+/** Text made safe for HTML content and quoted attribute values. */
+export function escapeHtml(value: string): string {
+	return value.replace(/[&<>"']/g, (character) => HTML_ESCAPES[character] ?? character);
+}
+
+/** One line of display text: no line breaks or control characters from a stored name. */
+function oneLine(value: string): string {
+	// eslint-disable-next-line no-control-regex -- stripping control characters is the point
+	return value.replace(/[\u0000-\u001f\u007f\s]+/g, ' ').trim();
+}
+
+/** Only web links go into a button: a javascript: or data: address would be a trap. */
+export function checkedLink(url: string): string {
+	let parsed: URL;
+	try {
+		parsed = new URL(url);
+	} catch {
+		throw new RangeError(`not an absolute link: ${url}`);
+	}
+	if (parsed.protocol !== 'https:' && parsed.protocol !== 'http:') {
+		throw new RangeError(`links in shop mail must be http(s), got ${parsed.protocol}`);
+	}
+	return parsed.href;
+}
+
+/** "15 minutes", "1 hour", "24 hours", "2 days", "90 minutes". */
+export function formatLifetime(minutes: number): string {
+	if (!Number.isInteger(minutes) || minutes <= 0) {
+		throw new RangeError(`a link lifetime is a whole number of minutes above 0, got ${minutes}`);
+	}
+	const plural = (count: number, unit: string) => `${count} ${unit}${count === 1 ? '' : 's'}`;
+	if (minutes % 1440 === 0 && minutes > 1440) return plural(minutes / 1440, 'day');
+	if (minutes % 60 === 0) return plural(minutes / 60, 'hour');
+	return plural(minutes, 'minute');
+}
+
+/** A paragraph of the body; `strong` parts are bold in HTML and plain in text. */
+type Paragraph = (string | { strong: string })[];
+
+interface Letter {
+	subject: string;
+	/** Shown by inboxes beside the subject; never shown in the opened mail. */
+	preview: string;
+	greeting: string;
+	before: Paragraph[];
+	button?: { label: string; url: string };
+	after: Paragraph[];
+	/** Small print at the foot: why the reader got this. */
+	footnote: string;
+}
+
+function paragraphHtml(paragraph: Paragraph): string {
+	return paragraph
+		.map((part) =>
+			typeof part === 'string'
+				? escapeHtml(part)
+				: `<strong style="font-weight:700;color:${look.ink};">${escapeHtml(part.strong)}</strong>`
+		)
+		.join('');
+}
+
+function paragraphText(paragraph: Paragraph): string {
+	return paragraph.map((part) => (typeof part === 'string' ? part : part.strong)).join('');
+}
+
+function renderLetter(letter: Letter, shopName: string): RenderedMail {
+	const shop = escapeHtml(shopName);
+	const p = (paragraph: Paragraph) =>
+		`<p style="margin:0 0 16px;font-size:17px;line-height:1.65;color:${look.ink};">${paragraphHtml(paragraph)}</p>`;
+	const button = letter.button
+		? `<table role="presentation" cellpadding="0" cellspacing="0" border="0" style="margin:8px 0 24px;">
+<tr><td style="border-radius:6px;background-color:${look.moss};">
+<a href="${escapeHtml(letter.button.url)}" style="display:inline-block;padding:13px 24px;font-family:${escapeHtml(look.font)};font-size:17px;font-weight:700;line-height:1.2;color:#ffffff;text-decoration:none;border-radius:6px;border:1px solid ${look.moss};">${escapeHtml(letter.button.label)}</a>
+</td></tr></table>
+<p style="margin:0 0 16px;font-size:14px;line-height:1.5;color:${look.muted};">If the button does not open, copy this address into your browser:<br><a href="${escapeHtml(letter.button.url)}" style="color:${look.moss};word-break:break-all;">${escapeHtml(letter.button.url)}</a></p>`
+		: '';
+
+	const html = `<!doctype html>
+<html lang="en">
+<head>
+<meta charset="utf-8">
+<meta name="viewport" content="width=device-width, initial-scale=1">
+<meta name="color-scheme" content="light">
+<title>${escapeHtml(letter.subject)}</title>
+</head>
+<body style="margin:0;padding:0;background-color:${look.page};">
+<div style="display:none;max-height:0;overflow:hidden;opacity:0;">${escapeHtml(letter.preview)}</div>
+<table role="presentation" width="100%" cellpadding="0" cellspacing="0" border="0" style="background-color:${look.page};">
+<tr><td align="center" style="padding:24px 12px;">
+<table role="presentation" width="100%" cellpadding="0" cellspacing="0" border="0" style="max-width:560px;font-family:${escapeHtml(look.font)};">
+<tr><td style="padding:0 4px 12px;font-size:13px;font-weight:700;letter-spacing:0.06em;text-transform:uppercase;color:${look.loam};">${shop}</td></tr>
+<tr><td style="background-color:${look.paper};border:1px solid ${look.rule};border-top:4px solid ${look.moss};border-radius:8px;padding:28px 24px 12px;">
+<p style="margin:0 0 16px;font-size:17px;line-height:1.65;color:${look.ink};">${escapeHtml(letter.greeting)}</p>
+${letter.before.map(p).join('\n')}
+${button}
+${letter.after.map(p).join('\n')}
+<p style="margin:0 0 16px;font-size:17px;line-height:1.65;color:${look.ink};">— ${shop}</p>
+</td></tr>
+<tr><td style="padding:16px 4px;font-size:13px;line-height:1.5;color:${look.muted};">${escapeHtml(letter.footnote)}</td></tr>
+</table>
+</td></tr>
+</table>
+</body>
+</html>
+`;
+
+	const lines = [
+		letter.greeting,
+		'',
+		...letter.before.flatMap((paragraph) => [paragraphText(paragraph), '']),
+		...(letter.button ? [`${letter.button.label}:`, letter.button.url, ''] : []),
+		...letter.after.flatMap((paragraph) => [paragraphText(paragraph), '']),
+		`— ${shopName}`,
+		'',
+		'--',
+		letter.footnote,
+		''
+	];
+	return { subject: letter.subject, html, text: lines.join('\n') };
+}
+
+function hello(name: string | null): string {
+	const clean = name ? oneLine(name) : '';
+	return clean ? `Hello ${clean},` : 'Hello,';
+}
+
+/** Renders one message with the shop's name. Throws RangeError on a link that is not http(s). */
+export function renderMail(message: MailMessage, shop: MailShop): RenderedMail {
+	const shopName = oneLine(shop.shopName) || 'Hatchlot shop';
+	const sentTo = `This e-mail was sent to ${oneLine(message.to)} by ${shopName}.`;
+	switch (message.kind) {
+		case 'verify_email': {
+			const lifetime = formatLifetime(message.expiresInMinutes);
+			return renderLetter(
+				{
+					subject: `Confirm your e-mail address for ${shopName}`,
+					preview: `One click confirms this address for your ${shopName} account.`,
+					greeting: hello(message.name),
+					before: [
+						[
+							`Thank you for opening an account with ${shopName}. Please confirm that this address is yours, so order updates, ship dates and care sheets reach you.`
+						]
+					],
+					button: { label: 'Confirm my e-mail address', url: checkedLink(message.url) },
+					after: [
+						['The link works once and expires in ', { strong: lifetime }, '.'],
+						[
+							'If you did not open an account, you can ignore this message: the address stays unconfirmed and nothing is sent to it again.'
+						]
+					],
+					footnote: `${sentTo} You get it because someone signed up with this address.`
+				},
+				shopName
+			);
+		}
+		case 'sign_in_link': {
+			const lifetime = formatLifetime(message.expiresInMinutes);
+			return renderLetter(
+				{
+					subject: `Your sign-in link for ${shopName}`,
+					preview: `Sign in to ${shopName} without a password. The link expires in ${lifetime}.`,
+					greeting: hello(null),
+					before: [['Here is the link you asked for. It signs you in; no password needed.']],
+					button: { label: `Sign in to ${shopName}`, url: checkedLink(message.url) },
+					after: [
+						['The link works once and expires in ', { strong: lifetime }, '.'],
+						[
+							'If you did not ask to sign in, ignore this message. Nobody can sign in without the link, and it stops working on its own.'
+						]
+					],
+					footnote: `${sentTo} You get it because a sign-in link was asked for on the shop's sign-in page.`
+				},
+				shopName
+			);
+		}
+		case 'password_reset': {
+			const lifetime = formatLifetime(message.expiresInMinutes);
+			return renderLetter(
+				{
+					subject: `Choose a new password for ${shopName}`,
+					preview: `A link to choose a new password. It expires in ${lifetime}.`,
+					greeting: hello(message.name),
+					before: [
+						[
+							`A new password was asked for on your ${shopName} account. Use the button to choose one.`
+						]
+					],
+					button: { label: 'Choose a new password', url: checkedLink(message.url) },
+					after: [
+						['The link works once and expires in ', { strong: lifetime }, '.'],
+						[
+							'Your current password keeps working until you choose a new one. If you did not ask for this, ignore this message.'
+						]
+					],
+					footnote: `${sentTo} You get it because a password reset was asked for with this address.`
+				},
+				shopName
+			);
+		}
+		case 'account_exists': {
+			const lifetime = formatLifetime(message.expiresInMinutes);
+			return renderLetter(
+				{
+					subject: `You already have an account at ${shopName}`,
+					preview: 'Someone tried to sign up with this address. Your account is unchanged.',
+					greeting: hello(null),
+					before: [
+						[
+							'Someone just tried to open a new account with this e-mail address, but there is already an account for it. You can sign in as you always do.'
+						],
+						['Forgotten the password? Choose a new one here:']
+					],
+					button: { label: 'Choose a new password', url: checkedLink(message.url) },
+					after: [
+						['The link works once and expires in ', { strong: lifetime }, '.'],
+						['If it was not you, ignore this message: nothing about your account has changed.']
+					],
+					footnote: `${sentTo} You get it because someone signed up with this address.`
+				},
+				shopName
+			);
+		}
+		case 'password_changed':
+			return renderLetter(
+				{
+					subject: `Your ${shopName} password was changed`,
+					preview: 'The password of your account was just changed.',
+					greeting: hello(message.name),
+					before: [
+						['The password of your ', { strong: shopName }, ' account was just changed.'],
+						['If that was you, there is nothing more to do.']
+					],
+					after: [
+						[
+							'If it was not you, choose a new password at once with "Forgot your password?" on the sign-in page, and reply to this message so the shop can check your orders with you.'
+						]
+					],
+					footnote: `${sentTo} You get it whenever the password of your account changes.`
+				},
+				shopName
+			);
+	}
+}

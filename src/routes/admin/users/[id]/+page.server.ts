@@ -1,0 +1,77 @@
+import { error, fail } from '@sveltejs/kit';
+import { env } from '$env/dynamic/private';
+import { message, setError, superValidate } from 'sveltekit-superforms';
+import { zod4 } from 'sveltekit-superforms/adapters';
+import { disableSchema, roleChangeSchema } from '$lib/accounts/schemas';
+import { changeRole, listPeople, setDisabled } from '$lib/server/accounts/users';
+import { requireRole } from '$lib/server/auth/guard';
+import { clientAddress } from '$lib/server/auth/requests';
+import { getDb } from '$lib/server/db';
+import type { Actions, PageServerLoad } from './$types';
+
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+
+async function personOr404(id: string) {
+	if (!UUID.test(id)) error(404, 'No such account.');
+	const db = getDb();
+	const found = await db.selectFrom('User').select('email').where('id', '=', id).executeTakeFirst();
+	if (!found) error(404, 'No such account.');
+	const [person] = await listPeople(db, { search: found.email, limit: 1 });
+	if (!person) error(404, 'No such account.');
+	return person;
+}
+
+export const load: PageServerLoad = async (event) => {
+	const me = requireRole(event, 'admin');
+	const person = await personOr404(event.params.id);
+	return {
+		person,
+		isMe: person.id === me.id,
+		timeZone: env.SHOP_TIME_ZONE || 'America/New_York',
+		roleForm: await superValidate(
+			{ userId: person.id, role: person.role },
+			zod4(roleChangeSchema),
+			{ id: 'role' }
+		),
+		disableForm: await superValidate(
+			{ userId: person.id, disabled: !person.disabledAt },
+			zod4(disableSchema),
+			{
+				id: 'disable'
+			}
+		)
+	};
+};
+
+export const actions: Actions = {
+	role: async (event) => {
+		const me = requireRole(event, 'admin');
+		const form = await superValidate(event.request, zod4(roleChangeSchema), { id: 'role' });
+		if (!form.valid || form.data.userId !== event.params.id) return fail(400, { roleForm: form });
+		const outcome = await changeRole(
+			getDb(),
+			{ userId: me.id, ip: clientAddress(event) },
+			form.data.userId,
+			form.data.role
+		);
+		if (!outcome.ok) return setError(form, 'role', outcome.problem);
+		return message(form, 'Role saved. It applies from their next request.');
+	},
+	disable: async (event) => {
+		const me = requireRole(event, 'admin');
+		const form = await superValidate(event.request, zod4(disableSchema), { id: 'disable' });
+		if (!form.valid || form.data.userId !== event.params.id)
+			return fail(400, { disableForm: form });
+		const outcome = await setDisabled(
+			getDb(),
+			{ userId: me.id, ip: clientAddress(event) },
+			form.data.userId,
+			form.data.disabled
+		);
+		if (!outcome.ok) return setError(form, 'userId', outcome.problem);
+		return message(
+			form,
+			form.data.disabled ? 'Account disabled; its sessions ended.' : 'Account enabled again.'
+		);
+	}
+};
