@@ -23,6 +23,12 @@ export const init: ServerInit = async () => {
 	jobs = await startJobs(jobsOptionsFromEnv());
 };
 
+// A stray rejection (a job library losing its connection mid-restart) is logged,
+// not allowed to stop the whole shop.
+process.on('unhandledRejection', (reason) => {
+	console.error('[unhandled rejection]', reason);
+});
+
 // adapter-node emits this on SIGINT/SIGTERM once requests have drained; open
 // pools would otherwise keep the process alive until their idle timeouts.
 process.on('sveltekit:shutdown', () => {

@@ -4,6 +4,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../seed/accounts';
 import { seedDemo } from '../../seed/demo';
 import { changeRole, setDisabled } from '../../src/lib/server/accounts/users';
+import { signUp, verifyEmail } from '../../src/lib/server/auth/accounts';
 import { createAccountLimits } from '../../src/lib/server/auth/limits';
 import { cookiesMustBeSecure, createSession } from '../../src/lib/server/auth/sessions';
 import { createPool } from '../../src/lib/server/db/connect';
@@ -142,6 +143,79 @@ describe('accounts over HTTP', () => {
 		expect(audit).toEqual([
 			{ actor_user_id: adminId, actor_ip: '127.0.0.1', detail: { from: 'customer', to: 'keeper' } }
 		]);
+	});
+
+	it('ends the session on the server at sign-out', async () => {
+		const token = await createSession(scratch.db, await userId(customer.email));
+		const response = await fetch(`${app.origin}/signout`, {
+			method: 'POST',
+			redirect: 'manual',
+			headers: {
+				origin: app.origin,
+				accept: 'text/html',
+				'content-type': 'application/x-www-form-urlencoded',
+				cookie: `hatchlot.session=${token}`
+			},
+			body: ''
+		});
+		expect(response.status).toBe(303);
+		const left = await scratch.db
+			.selectFrom('Session')
+			.select('id')
+			.where('sessionToken', '=', token)
+			.executeTakeFirst();
+		expect(left).toBeUndefined();
+		const later = await fetch(`${app.origin}/account`, {
+			headers: { cookie: `hatchlot.session=${token}` },
+			redirect: 'manual'
+		});
+		expect(later.headers.get('location')).toMatch(/^\/signin/);
+	});
+
+	it('gives a guest order to the account that signs up and confirms the same e-mail', async () => {
+		const email = 'moss.guest@example.test';
+		await scratch.db
+			.insertInto('customer_order')
+			.values({
+				order_number: 'HL-90001',
+				email: 'Moss.Guest@example.test',
+				ship_name: 'Moss Guest',
+				ship_line1: '4 Fern Row',
+				ship_city: 'Astoria',
+				ship_state: 'OR',
+				ship_zip: '97103',
+				service: 'two_day',
+				subtotal_cents: 1400,
+				shipping_cents: 2800,
+				total_cents: 4200
+			})
+			.execute();
+		await signUp(
+			scratch.db,
+			{ name: 'Moss Guest', email, password: 'mossy logs and rain barrels' },
+			app.origin,
+			{ ip: null }
+		);
+		const mail = await scratch.db
+			.selectFrom('outgoing_mail')
+			.select('text_body')
+			.where('to_address', '=', email)
+			.where('kind', '=', 'verify_email')
+			.executeTakeFirstOrThrow();
+		const token = /\/verify\/([\w-]+)/.exec(mail.text_body)![1]!;
+		const outcome = await verifyEmail(scratch.db, token, { ip: null });
+		expect(outcome.ok).toBe(true);
+		const order = await scratch.db
+			.selectFrom('customer_order')
+			.select('user_id')
+			.where('order_number', '=', 'HL-90001')
+			.executeTakeFirstOrThrow();
+		expect(order.user_id).toBe(await userId(email));
+		// The link works once.
+		expect(await verifyEmail(scratch.db, token, { ip: null })).toEqual({
+			ok: false,
+			reason: 'used'
+		});
 	});
 
 	it('stops sign-in tries past the per-e-mail limit, audits the burst once, and tells the person to wait', async () => {
