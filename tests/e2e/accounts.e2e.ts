@@ -10,6 +10,12 @@ async function signInWithPassword(page: Page, email: string, password: string) {
 	await form.getByLabel('E-mail').fill(email);
 	await form.getByLabel('Password').fill(password);
 	await form.getByRole('button', { name: 'Sign in' }).click();
+	// Wait for the answer, so the next navigation does not cut the sign-in short.
+	await expect(
+		page
+			.getByText('do not match an account that can sign in')
+			.or(page.getByRole('heading', { name: 'Your account' }))
+	).toBeVisible({ timeout: 15_000 });
 }
 
 async function signOut(page: Page) {
@@ -82,6 +88,7 @@ test('a customer resets a forgotten password from start to end', async ({ page }
 test('a customer promoted by the admin reaches the back office on the next request', async ({
 	browser
 }, info) => {
+	test.setTimeout(60_000);
 	test.skip(
 		info.project.name !== 'desktop',
 		'one promotion is enough; the role change is shared data'
