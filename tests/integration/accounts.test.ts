@@ -145,6 +145,33 @@ describe('accounts over HTTP', () => {
 		]);
 	});
 
+	it("shows a customer their own order and answers 404 for another customer's", async () => {
+		const [first, second] = DEMO_ACCOUNTS.filter((a) => a.role === 'customer');
+		const orderOf = async (email: string) =>
+			(
+				await scratch.db
+					.selectFrom('customer_order')
+					.select('order_number')
+					.where('user_id', '=', await userId(email))
+					.orderBy('order_number')
+					.executeTakeFirstOrThrow()
+			).order_number;
+		const mine = await orderOf(first!.email);
+		const theirs = await orderOf(second!.email);
+		const cookie = `hatchlot.session=${await createSession(scratch.db, await userId(first!.email))}`;
+		const own = await fetch(`${app.origin}/account/orders/${mine}`, { headers: { cookie } });
+		expect(own.status).toBe(200);
+		expect(await own.text()).toContain(mine);
+		const other = await fetch(`${app.origin}/account/orders/${theirs}`, { headers: { cookie } });
+		expect(other.status).toBe(404);
+		expect(await other.text()).not.toContain(theirs);
+		const list = await (
+			await fetch(`${app.origin}/account/orders`, { headers: { cookie } })
+		).text();
+		expect(list).toContain(mine);
+		expect(list).not.toContain(theirs);
+	});
+
 	it('ends the session on the server at sign-out', async () => {
 		const token = await createSession(scratch.db, await userId(customer.email));
 		const response = await fetch(`${app.origin}/signout`, {
