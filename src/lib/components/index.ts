@@ -4,6 +4,7 @@ export { default as Card } from './Card.svelte';
 export { default as DataTable, type Column } from './DataTable.svelte';
 export { default as EmptyState } from './EmptyState.svelte';
 export { default as Field, type FieldControl } from './Field.svelte';
+export { default as FormCheckboxField } from './FormCheckboxField.svelte';
 export { default as FormTextField } from './FormTextField.svelte';
 export { default as Icon } from './Icon.svelte';
 export { default as Money } from './Money.svelte';

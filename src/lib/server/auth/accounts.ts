@@ -77,45 +77,38 @@ export async function signUp(
 				});
 				return;
 			}
-			// An account made by a sign-in link (or a guest claim) gains a password, once verified.
-			await trx
-				.insertInto('user_password')
-				.values({ user_id: existing.id, password_hash: passwordHash })
-				.execute();
-			const token = await issueToken(trx, existing.id, 'verify_email', VERIFY_LINK_MINUTES, now);
-			await queueMail(trx, {
-				kind: 'verify_email',
-				to: email,
-				name: existing.name ?? input.name,
-				url: `${origin}/verify/${token}`,
-				expiresInMinutes: VERIFY_LINK_MINUTES
-			});
-			return;
 		}
-		const user = await trx
-			.insertInto('User')
-			.values({ name: input.name.trim(), email })
-			.returning('id')
-			.executeTakeFirstOrThrow();
-		await trx.insertInto('user_role').values({ user_id: user.id, role: 'customer' }).execute();
+		// An account made earlier by a sign-in link gains a password here, once the address is confirmed.
+		const userId =
+			existing?.id ??
+			(
+				await trx
+					.insertInto('User')
+					.values({ name: input.name.trim(), email })
+					.returning('id')
+					.executeTakeFirstOrThrow()
+			).id;
+		if (!existing)
+			await trx.insertInto('user_role').values({ user_id: userId, role: 'customer' }).execute();
 		await trx
 			.insertInto('user_password')
-			.values({ user_id: user.id, password_hash: passwordHash })
+			.values({ user_id: userId, password_hash: passwordHash })
 			.execute();
-		const token = await issueToken(trx, user.id, 'verify_email', VERIFY_LINK_MINUTES, now);
+		const token = await issueToken(trx, userId, 'verify_email', VERIFY_LINK_MINUTES, now);
 		await queueMail(trx, {
 			kind: 'verify_email',
 			to: email,
-			name: input.name.trim(),
+			name: existing?.name ?? input.name.trim(),
 			url: `${origin}/verify/${token}`,
 			expiresInMinutes: VERIFY_LINK_MINUTES
 		});
 		await writeAudit(trx, {
-			actorUserId: user.id,
+			actorUserId: userId,
 			actorIp: actor.ip,
 			action: 'account.sign_up',
 			entity: 'user',
-			entityId: user.id
+			entityId: userId,
+			detail: { hadAccount: Boolean(existing) }
 		});
 	});
 }
