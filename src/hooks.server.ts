@@ -50,14 +50,15 @@ const resolveUser: Handle = async ({ event, resolve }) => {
 	if (token) {
 		try {
 			event.locals.user = await resolveSession(getDb(), token);
+			if (event.locals.user) event.locals.sessionToken = token;
+			// A token the database does not know (expired, signed out, disabled) is dropped.
+			else event.cookies.delete(cookieName, { path: '/' });
 		} catch (failure) {
-			// Database down: treat the request as signed out; /api/health tells the story.
+			// Database down: this request is signed out, but the cookie stays for when it is back.
 			console.warn(
 				`[auth] session lookup failed: ${failure instanceof Error ? failure.message : failure}`
 			);
 		}
-		if (event.locals.user) event.locals.sessionToken = token;
-		else event.cookies.delete(cookieName, { path: '/' });
 	}
 	return resolve(event);
 };
