@@ -7,8 +7,7 @@ import {
 	type ServerInit
 } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
-import { authSettings } from '$lib/server/auth';
-import { authConfig } from '$lib/server/auth/authjs';
+import { authJsConfig, authSettings } from '$lib/server/auth';
 import { roleAtLeast, requiredRoleForPath } from '$lib/server/auth/roles';
 import { resolveSession, sessionCookieName } from '$lib/server/auth/sessions';
 import { closeDb, getDb } from '$lib/server/db';
@@ -39,7 +38,7 @@ process.on('sveltekit:shutdown', () => {
 });
 
 // Auth.js answers its own /auth/* endpoints (the sign-in link callback among them).
-const { handle: authJsHandle } = SvelteKitAuth(async () => authConfig(authSettings()));
+const { handle: authJsHandle } = SvelteKitAuth(async () => authJsConfig());
 
 /** Who is asking, read on every request from the session and our user_role table. */
 const resolveUser: Handle = async ({ event, resolve }) => {

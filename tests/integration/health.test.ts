@@ -3,18 +3,8 @@
 import net from 'node:net';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { LATEST_MIGRATION } from '../../src/lib/server/db/migrator';
-import { freePort, startApp, type RunningApp } from './support/app';
+import { freePort, relayTo, startApp, type RunningApp } from './support/app';
 import { scratchDatabase, type ScratchDatabase } from './support/databases';
-
-/** A TCP relay that stands in for "the database host coming up". */
-function relayTo(targetPort: number): net.Server {
-	return net.createServer((inbound) => {
-		const outbound = net.connect(targetPort, '127.0.0.1');
-		inbound.pipe(outbound).pipe(inbound);
-		inbound.on('error', () => outbound.destroy());
-		outbound.on('error', () => inbound.destroy());
-	});
-}
 
 async function health(
 	appPort: number

@@ -18,6 +18,7 @@ import {
 import { listOutgoingMail, resendFailedMail } from '../../src/lib/server/mail/admin';
 import type { CaughtMessage, CaughtSummary } from '../../src/lib/server/mail/catcher';
 import { startMailCatcher, type MailCatcher } from '../fakes/mail-catcher';
+import { freePort, relayTo } from './support/app';
 import { scratchDatabase, type ScratchDatabase } from './support/databases';
 
 const SHOP = 'Mossback Hollow Inverts';
@@ -305,14 +306,6 @@ describe('shop mail', () => {
 	});
 });
 
-async function freePort(): Promise<number> {
-	const server = net.createServer();
-	await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
-	const { port } = server.address() as net.AddressInfo;
-	await new Promise((resolve) => server.close(resolve));
-	return port;
-}
-
 describe('jobs while PostgreSQL is down', () => {
 	let scratch: ScratchDatabase;
 	let catcher: MailCatcher;
@@ -350,12 +343,7 @@ describe('jobs while PostgreSQL is down', () => {
 		);
 
 		// A TCP relay stands in for the database host coming up on that port.
-		relay = net.createServer((inbound) => {
-			const outbound = net.connect(Number(new URL(scratch.url).port), '127.0.0.1');
-			inbound.pipe(outbound).pipe(inbound);
-			inbound.on('error', () => outbound.destroy());
-			outbound.on('error', () => inbound.destroy());
-		});
+		relay = relayTo(Number(new URL(scratch.url).port));
 		await new Promise<void>((resolve) => relay!.listen(dbPort, '127.0.0.1', resolve));
 		await runner.ready;
 		expect(runner.isStarted()).toBe(true);

@@ -15,6 +15,16 @@ export async function freePort(): Promise<number> {
 	return port;
 }
 
+/** A TCP relay to 127.0.0.1:targetPort: started late, it stands in for "the database host coming up". */
+export function relayTo(targetPort: number): net.Server {
+	return net.createServer((inbound) => {
+		const outbound = net.connect(targetPort, '127.0.0.1');
+		inbound.pipe(outbound).pipe(inbound);
+		inbound.on('error', () => outbound.destroy());
+		outbound.on('error', () => inbound.destroy());
+	});
+}
+
 export type RunningApp = {
 	port: number;
 	origin: string;

@@ -17,11 +17,8 @@ export type PersonRow = {
 
 export const PEOPLE_PAGE = 50;
 
-export async function listPeople(
-	db: Kysely<Database>,
-	opts: { search?: string; role?: Role | ''; limit?: number } = {}
-): Promise<PersonRow[]> {
-	let query = db
+function peopleQuery(db: Kysely<Database>) {
+	return db
 		.selectFrom('User as u')
 		.leftJoin('user_role as r', 'r.user_id', 'u.id')
 		.select([
@@ -33,6 +30,29 @@ export async function listPeople(
 			'r.disabled_at',
 			sql<Date>`coalesce(r.created_at, now())`.as('joined_at')
 		]);
+}
+
+type PersonQueryRow = Awaited<
+	ReturnType<ReturnType<typeof peopleQuery>['executeTakeFirstOrThrow']>
+>;
+
+function toPerson(r: PersonQueryRow): PersonRow {
+	return {
+		id: r.id,
+		name: r.name,
+		email: r.email,
+		role: r.role,
+		disabledAt: r.disabled_at,
+		verified: r.emailVerified !== null,
+		joinedAt: r.joined_at
+	};
+}
+
+export async function listPeople(
+	db: Kysely<Database>,
+	opts: { search?: string; role?: Role | ''; limit?: number } = {}
+): Promise<PersonRow[]> {
+	let query = peopleQuery(db);
 	const search = opts.search?.trim();
 	if (search) {
 		const pattern = `%${search.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
@@ -48,15 +68,13 @@ export async function listPeople(
 		.orderBy('u.email')
 		.limit(opts.limit ?? PEOPLE_PAGE)
 		.execute();
-	return rows.map((r) => ({
-		id: r.id,
-		name: r.name,
-		email: r.email,
-		role: r.role,
-		disabledAt: r.disabled_at,
-		verified: r.emailVerified !== null,
-		joinedAt: r.joined_at
-	}));
+	return rows.map(toPerson);
+}
+
+/** One person by account id, or null. */
+export async function findPerson(db: Kysely<Database>, userId: string): Promise<PersonRow | null> {
+	const row = await peopleQuery(db).where('u.id', '=', userId).executeTakeFirst();
+	return row ? toPerson(row) : null;
 }
 
 export type Actor = { userId: string; ip: string | null };

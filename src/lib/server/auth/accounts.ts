@@ -135,6 +135,35 @@ async function takeToken(
 	return { ok: true, userId: row.user_id };
 }
 
+/** Takes a one-time link inside the caller's transaction and marks it used. */
+async function consumeToken(
+	trx: Db,
+	token: string,
+	purpose: 'verify_email' | 'reset_password',
+	now: Date
+): Promise<LinkOutcome> {
+	const outcome = await takeToken(trx, token, purpose, now);
+	if (outcome.ok) {
+		await trx
+			.updateTable('account_token')
+			.set({ used_at: now })
+			.where('token_hash', '=', hashSecret(token))
+			.execute();
+	}
+	return outcome;
+}
+
+/** Hands guest orders placed with this (now proven) e-mail to its account. */
+export async function claimGuestOrders(db: Db, userId: string, email: string): Promise<number> {
+	const result = await db
+		.updateTable('customer_order')
+		.set({ user_id: userId })
+		.where('user_id', 'is', null)
+		.where(sql<string>`lower(email)`, '=', email.toLowerCase())
+		.executeTakeFirst();
+	return Number(result.numUpdatedRows);
+}
+
 /** Marks the e-mail verified and gives the account any guest orders placed with it. */
 export async function verifyEmail(
 	db: Db,
@@ -143,32 +172,22 @@ export async function verifyEmail(
 	now = new Date()
 ): Promise<LinkOutcome> {
 	return db.transaction().execute(async (trx) => {
-		const outcome = await takeToken(trx, token, 'verify_email', now);
+		const outcome = await consumeToken(trx, token, 'verify_email', now);
 		if (!outcome.ok) return outcome;
-		await trx
-			.updateTable('account_token')
-			.set({ used_at: now })
-			.where('token_hash', '=', hashSecret(token))
-			.execute();
 		const user = await trx
 			.updateTable('User')
 			.set({ emailVerified: now })
 			.where('id', '=', outcome.userId)
 			.returning('email')
 			.executeTakeFirstOrThrow();
-		const claimed = await trx
-			.updateTable('customer_order')
-			.set({ user_id: outcome.userId })
-			.where('user_id', 'is', null)
-			.where(sql<string>`lower(email)`, '=', user.email)
-			.executeTakeFirst();
+		const claimed = await claimGuestOrders(trx, outcome.userId, user.email);
 		await writeAudit(trx, {
 			actorUserId: outcome.userId,
 			actorIp: actor.ip,
 			action: 'account.verify_email',
 			entity: 'user',
 			entityId: outcome.userId,
-			detail: { guestOrdersClaimed: Number(claimed.numUpdatedRows) }
+			detail: { guestOrdersClaimed: claimed }
 		});
 		return outcome;
 	});
@@ -254,13 +273,8 @@ export async function resetPassword(
 ): Promise<LinkOutcome> {
 	const passwordHash = await hashPassword(password);
 	return db.transaction().execute(async (trx) => {
-		const outcome = await takeToken(trx, token, 'reset_password', now);
+		const outcome = await consumeToken(trx, token, 'reset_password', now);
 		if (!outcome.ok) return outcome;
-		await trx
-			.updateTable('account_token')
-			.set({ used_at: now })
-			.where('token_hash', '=', hashSecret(token))
-			.execute();
 		await trx
 			.insertInto('user_password')
 			.values({ user_id: outcome.userId, password_hash: passwordHash })

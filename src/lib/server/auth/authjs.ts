@@ -5,10 +5,10 @@ import { Auth, raw, skipCSRFCheck, type AuthConfig } from '@auth/core';
 import { KyselyAdapter } from '@auth/kysely-adapter';
 import Nodemailer from '@auth/sveltekit/providers/nodemailer';
 import type { Kysely } from 'kysely';
-import { sql } from 'kysely';
 import type { Database } from '../db/schema';
 import { queueMail } from '../mail';
 import { writeAudit } from '../audit';
+import { claimGuestOrders } from './accounts';
 import { SESSION_DAYS, sessionCookieName, sessionCookieOptions } from './sessions';
 
 export const SIGN_IN_LINK_MINUTES = 15;
@@ -21,21 +21,6 @@ export type AuthSettings = {
 	smtpUrl: string;
 	mailFrom: string;
 };
-
-/** Hands guest orders placed with this (now proven) e-mail to its account. */
-export async function claimGuestOrders(
-	db: Kysely<Database>,
-	userId: string,
-	email: string
-): Promise<number> {
-	const result = await db
-		.updateTable('customer_order')
-		.set({ user_id: userId })
-		.where('user_id', 'is', null)
-		.where(sql<string>`lower(email)`, '=', email.toLowerCase())
-		.executeTakeFirst();
-	return Number(result.numUpdatedRows);
-}
 
 export function authConfig(settings: AuthSettings): AuthConfig {
 	const { db } = settings;
@@ -115,20 +100,20 @@ export function authConfig(settings: AuthSettings): AuthConfig {
 
 /** Asks Auth.js to e-mail a sign-in link, as its own sign-in endpoint would. */
 export async function requestSignInLink(
-	settings: AuthSettings,
+	config: AuthConfig,
+	origin: string,
 	email: string,
 	callbackUrl: string
 ): Promise<void> {
-	const request = new Request(`${settings.origin}/auth/signin/nodemailer`, {
+	const request = new Request(`${origin}/auth/signin/nodemailer`, {
 		method: 'POST',
 		headers: { 'content-type': 'application/x-www-form-urlencoded' },
 		body: new URLSearchParams({ email, callbackUrl })
 	});
-	const result = await Auth(request, { ...authConfig(settings), raw });
+	const result = await Auth(request, { ...config, raw });
 	const redirect = (result as { redirect?: string }).redirect ?? '';
 	if (redirect.includes('error=')) {
-		throw new Error(
-			`Auth.js refused the sign-in link request (${new URL(redirect, settings.origin).searchParams.get('error')})`
-		);
+		const reason = new URL(redirect, origin).searchParams.get('error');
+		throw new Error(`Auth.js refused the sign-in link request (${reason})`);
 	}
 }

@@ -1,12 +1,14 @@
 // The app-edge wiring of accounts: settings from the environment, built once.
 import { env } from '$env/dynamic/private';
 import { getDb, getPool } from '../db';
-import type { AuthSettings } from './authjs';
+import type { AuthConfig } from '@auth/core';
+import { authConfig, type AuthSettings } from './authjs';
 import { createAccountLimits, limitsFromEnv, type AccountLimits } from './limits';
 import { cookiesMustBeSecure } from './sessions';
 
 let settings: AuthSettings | undefined;
 let limits: AccountLimits | undefined;
+let authJs: AuthConfig | undefined;
 
 export function origin(): string {
 	return (env.ORIGIN ?? 'http://127.0.0.1:3000').replace(/\/$/, '');
@@ -30,6 +32,12 @@ export function authSettings(): AuthSettings {
 		};
 	}
 	return settings;
+}
+
+/** Auth.js's configuration, built once: the hooks ask for it on every request. */
+export function authJsConfig(): AuthConfig {
+	authJs ??= authConfig(authSettings());
+	return authJs;
 }
 
 export function accountLimits(): AccountLimits {

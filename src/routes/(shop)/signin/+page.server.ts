@@ -2,7 +2,7 @@ import { fail, redirect } from '@sveltejs/kit';
 import { message, setError, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { linkSignInSchema, passwordSignInSchema, safeNext } from '$lib/accounts/schemas';
-import { accountLimits, authSettings } from '$lib/server/auth';
+import { accountLimits, authJsConfig, origin } from '$lib/server/auth';
 import { checkPassword } from '$lib/server/auth/accounts';
 import { requestSignInLink } from '$lib/server/auth/authjs';
 import { limitProblem, startSession } from '$lib/server/auth/requests';
@@ -51,7 +51,8 @@ export const actions: Actions = {
 		if (tooMany) return message(form, tooMany, { status: 429 });
 		try {
 			await requestSignInLink(
-				authSettings(),
+				authJsConfig(),
+				origin(),
 				form.data.email.toLowerCase(),
 				safeNext(form.data.next)
 			);

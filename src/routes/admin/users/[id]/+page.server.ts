@@ -3,20 +3,18 @@ import { env } from '$env/dynamic/private';
 import { message, setError, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { disableSchema, roleChangeSchema } from '$lib/accounts/schemas';
-import { changeRole, listPeople, setDisabled } from '$lib/server/accounts/users';
+import { changeRole, findPerson, setDisabled } from '$lib/server/accounts/users';
 import { requireRole } from '$lib/server/auth/guard';
 import { clientAddress } from '$lib/server/auth/requests';
+import { resolveShopTimeZone } from '$lib/server/backoffice/settings';
 import { getDb } from '$lib/server/db';
 import type { Actions, PageServerLoad } from './$types';
 
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 
 async function personOr404(id: string) {
-	if (!UUID.test(id)) error(404, 'No such account.');
-	const db = getDb();
-	const found = await db.selectFrom('User').select('email').where('id', '=', id).executeTakeFirst();
-	if (!found) error(404, 'No such account.');
-	const [person] = await listPeople(db, { search: found.email, limit: 1 });
+	// Not a uuid is not an account; PostgreSQL would refuse to compare it.
+	const person = UUID.test(id) ? await findPerson(getDb(), id) : null;
 	if (!person) error(404, 'No such account.');
 	return person;
 }
@@ -27,7 +25,7 @@ export const load: PageServerLoad = async (event) => {
 	return {
 		person,
 		isMe: person.id === me.id,
-		timeZone: env.SHOP_TIME_ZONE || 'America/New_York',
+		timeZone: await resolveShopTimeZone(getDb(), env.SHOP_TIME_ZONE),
 		roleForm: await superValidate(
 			{ userId: person.id, role: person.role },
 			zod4(roleChangeSchema),

@@ -1,6 +1,7 @@
 import { error } from '@sveltejs/kit';
 import { env } from '$env/dynamic/private';
 import { requireUser } from '$lib/server/auth/guard';
+import { resolveShopTimeZone } from '$lib/server/backoffice/settings';
 import { getDb } from '$lib/server/db';
 import { ownOrder } from '$lib/server/orders/customer';
 import type { PageServerLoad } from './$types';
@@ -10,5 +11,5 @@ export const load: PageServerLoad = async (event) => {
 	const order = await ownOrder(getDb(), user.id, event.params.number.slice(0, 20));
 	// Another customer's order is "not found", never "forbidden": its number tells nothing.
 	if (!order) error(404, 'No order of yours has that number.');
-	return { order, timeZone: env.SHOP_TIME_ZONE || 'America/New_York' };
+	return { order, timeZone: await resolveShopTimeZone(getDb(), env.SHOP_TIME_ZONE) };
 };
