@@ -168,6 +168,7 @@ export interface SpeciesTable {
 	grow_out_weeks: number;
 	refresh_interval_days: Generated<number>;
 	tub_hold_days: Generated<number>;
+	molt_quiet_days: Generated<number>;
 	created_at: CreatedAt;
 	updated_at: UpdatedAt;
 }
@@ -255,6 +256,7 @@ export interface ClutchTable {
 	paused_reason: 'molting' | 'unwell' | null;
 	sale_ready_on: DateOnly;
 	parent_clutch_id: number | null;
+	tub_check_id: number | null;
 	version: Generated<number>;
 	note: Generated<string>;
 	created_at: CreatedAt;
@@ -311,6 +313,8 @@ export interface PhotoTable {
 	listing_id: number | null;
 	claim_id: number | null;
 	uploaded_by: string | null;
+	widths: Generated<number[]>;
+	source_format: Generated<'jpeg' | 'png' | 'webp' | 'avif'>;
 	created_at: CreatedAt;
 }
 export interface CartTable {
