@@ -147,6 +147,22 @@ export const icons = {
 		},
 		{ d: 'M10 20v-4.5h4V20' }
 	],
+	// ---- back office
+	tub: [tub, { d: 'M6.5 10.5 8 7.5h8l1.5 3' }],
+	checklist: [
+		{ d: 'm4 7 1.6 1.6L8.5 5.5M4 13.5l1.6 1.6 2.9-3.1' },
+		{ d: 'M11 7.5h9M11 14h9M4 19.5h16' }
+	],
+	bars: [{ d: 'M4 20.5h16' }, { d: 'M6.5 17V11M11 17V6.5M15.5 17v-8M20 17v-4' }],
+	layers: [
+		{ d: 'm12 4 8.5 4.3L12 12.6 3.5 8.3z' },
+		{ d: 'm3.5 12.3 8.5 4.3 8.5-4.3M3.5 16.3l8.5 4.3 8.5-4.3' }
+	],
+	camera: [{ d: 'M4 8.5h3.2L9 6h6l1.8 2.5H20v11H4z' }, { cx: 12, cy: 13.5, r: 3.3 }],
+	book: [
+		{ d: 'M12 6.5C10 5 7 4.5 4 5v13.5c3-.5 6 0 8 1.5 2-1.5 5-2 8-1.5V5c-3-.5-6 0-8 1.5zM12 6.5V20' }
+	],
+	plus: [{ d: 'M12 5v14M5 12h14' }],
 	// ---- animal groups, for species tiles
 	millipede: [
 		// Side view: a long body of many rings, two legs to a ring, antennae at the head.
