@@ -2,6 +2,7 @@
 // so a new state in the schema fails type-checking here until it has a word.
 import type {
 	AnimalGroup,
+	CareEntryKind,
 	ClaimState,
 	ClutchStage,
 	ClutchState,
@@ -171,4 +172,20 @@ export function formatIsoWeekdays(days: readonly number[]): string {
 /** "1 animal", "12 animals": a count with its noun. */
 export function formatCount(count: number, singular: string, plural = `${singular}s`): string {
 	return `${count.toLocaleString('en-US')} ${count === 1 ? singular : plural}`;
+}
+
+export const careEntryKindLabels = {
+	substrate_refresh_half: 'Half substrate refresh',
+	substrate_refresh_full: 'Full substrate refresh',
+	leaf_top_up: 'Leaf top-up',
+	moisture_check: 'Moisture check',
+	protein: 'Protein offered',
+	calcium: 'Calcium offered',
+	molt_seen: 'Molt seen',
+	census: 'Census count',
+	pest_note: 'Pest note'
+} as const satisfies Record<CareEntryKind, string>;
+
+export function careEntryKindLabel(kind: CareEntryKind): string {
+	return careEntryKindLabels[kind];
 }

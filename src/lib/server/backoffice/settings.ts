@@ -1,6 +1,7 @@
 // Reads the shop's one settings row (shop_setting). Writes arrive with the settings form.
 import type { Db } from '$lib/server/db';
 import type { ShopSetting } from '$lib/server/db/schema';
+import { todayInZone } from '$lib/format/dates';
 
 /** The column default of shop_setting.time_zone, used when no row exists yet. */
 export const DEFAULT_SHOP_TIME_ZONE = 'America/New_York';
@@ -33,4 +34,14 @@ export async function resolveShopTimeZone(db: Db, fallback?: string): Promise<st
 		if (candidate && isKnownTimeZone(candidate)) return candidate;
 	}
 	return DEFAULT_SHOP_TIME_ZONE;
+}
+
+/** The shop's zone and the calendar date it is there now: "today" for every back-office form. */
+export async function shopClock(
+	db: Db,
+	fallback?: string,
+	now: Date = new Date()
+): Promise<{ timeZone: string; today: string }> {
+	const timeZone = await resolveShopTimeZone(db, fallback);
+	return { timeZone, today: todayInZone(timeZone, now) };
 }
