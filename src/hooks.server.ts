@@ -86,7 +86,18 @@ const gate: Handle = async ({ event, resolve }) => {
 	return resolve(event);
 };
 
-export const handle: Handle = sequence(authJsHandle, resolveUser, gate);
+// The server accepts bodies up to BODY_SIZE_LIMIT (64M) because photo uploads need it;
+// every other route keeps to a small body, so a big post elsewhere is refused at once.
+const SMALL_BODY_BYTES = 512 * 1024;
+const PHOTO_POSTS = new Set(['/api/manage/photos', '/manage/photos']);
+const bodyLimit: Handle = async ({ event, resolve }) => {
+	const length = Number(event.request.headers.get('content-length') ?? 0);
+	if (length > SMALL_BODY_BYTES && !PHOTO_POSTS.has(event.url.pathname))
+		return new Response('That request is too large.', { status: 413 });
+	return resolve(event);
+};
+
+export const handle: Handle = sequence(bodyLimit, authJsHandle, resolveUser, gate);
 
 // Unexpected errors: log the detail on the server, show a plain sentence.
 export const handleError: HandleServerError = ({ error, status }) => {

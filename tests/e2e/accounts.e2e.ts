@@ -115,5 +115,7 @@ test('a customer promoted by the admin reaches the back office on the next reque
 
 	const allowed = await customerPage.goto('/manage');
 	expect(allowed?.status()).toBe(200);
-	await expect(customerPage.getByRole('heading', { level: 1, name: 'Overview' })).toBeVisible();
+	await expect(
+		customerPage.getByRole('heading', { level: 1, name: 'Today at the rack' })
+	).toBeVisible();
 });

@@ -2,6 +2,7 @@
 // (which validates) and the pages (which show the limits as hints).
 import { z } from 'zod';
 import { holdUntilProblem } from './schedule';
+import { ENCLOSURE_LIMITS } from './substrate';
 
 const isoDate = z
 	.string()
@@ -22,9 +23,9 @@ function inches(label: string, max: number) {
 export const colonySchema = z.object({
 	speciesId: z.number({ error: 'Choose the species.' }).int().positive('Choose the species.'),
 	name: z.string().trim().min(2, 'Give the colony a name of two letters or more.').max(80),
-	lengthIn: inches('inside length', 120),
-	widthIn: inches('inside width', 120),
-	depthIn: inches('substrate depth', 48),
+	lengthIn: inches('inside length', ENCLOSURE_LIMITS.length.max),
+	widthIn: inches('inside width', ENCLOSURE_LIMITS.width.max),
+	depthIn: inches('substrate depth', ENCLOSURE_LIMITS.depth.max),
 	foundersCount: z
 		.number({ error: 'Give a whole number.' })
 		.int('Give a whole number.')

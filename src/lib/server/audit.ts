@@ -3,6 +3,9 @@
 import type { Kysely } from 'kysely';
 import type { Database } from './db/schema';
 
+/** Who makes a change: the signed-in user and the address they came from. */
+export type Actor = { userId: string; ip: string | null };
+
 export type AuditEntry = {
 	actorUserId: string | null;
 	actorIp: string | null;

@@ -77,7 +77,8 @@ export async function findPerson(db: Kysely<Database>, userId: string): Promise<
 	return row ? toPerson(row) : null;
 }
 
-export type Actor = { userId: string; ip: string | null };
+export type { Actor } from '../audit';
+import type { Actor } from '../audit';
 export type ChangeOutcome = { ok: true } | { ok: false; problem: string };
 
 export async function changeRole(

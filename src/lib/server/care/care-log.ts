@@ -2,7 +2,7 @@
 // refresh can set the removed substrate aside as a resting tub in the same step.
 import { sql } from 'kysely';
 import type { Db } from '$lib/server/db';
-import type { Actor } from '$lib/server/accounts/users';
+import type { Actor } from '$lib/server/audit';
 import type { CareEntryKind, MoistureReading } from '$lib/server/db/schema';
 import { writeAudit } from '$lib/server/audit';
 import { setAsideTub } from '$lib/server/tubs/tubs';

@@ -2,7 +2,8 @@
 // refresh, moisture check and molt; resting tubs with their last check; growing
 // clutches near their projection. One aggregate query each; the rules are pure.
 import type { Db } from '$lib/server/db';
-import { addDays, type IsoDate } from '$lib/format/dates';
+import type { IsoDate } from '$lib/format/dates';
+import { clutchesDueSoon } from '$lib/server/stock/pipeline';
 import { dueToday, SALE_READY_WINDOW_DAYS, type DueToday } from '$lib/care/due-today';
 
 const asDate = (value: unknown): IsoDate | null => (value == null ? null : String(value));
@@ -46,15 +47,7 @@ export async function loadDueToday(db: Db, today: IsoDate): Promise<DueToday> {
 			.where('t.state', '=', 'resting')
 			.groupBy(['t.id', 'c.id', 's.id'])
 			.execute(),
-		db
-			.selectFrom('clutch as k')
-			.innerJoin('species as s', 's.id', 'k.species_id')
-			.select(['k.code', 's.common_name', 'k.count_alive', 'k.sale_ready_on'])
-			.where('k.state', '=', 'growing')
-			.where('k.count_alive', '>', 0)
-			.where('k.sale_ready_on', '<', addDays(today, SALE_READY_WINDOW_DAYS))
-			.orderBy('k.sale_ready_on')
-			.execute()
+		clutchesDueSoon(db, today, SALE_READY_WINDOW_DAYS)
 	]);
 	return dueToday(
 		{
@@ -79,9 +72,9 @@ export async function loadDueToday(db: Db, today: IsoDate): Promise<DueToday> {
 			})),
 			clutches: clutches.map((row) => ({
 				code: row.code,
-				speciesName: row.common_name,
-				countAlive: row.count_alive,
-				saleReadyOn: row.sale_ready_on
+				speciesName: row.speciesCommonName,
+				countAlive: row.countAlive,
+				saleReadyOn: row.saleReadyOn
 			}))
 		},
 		today

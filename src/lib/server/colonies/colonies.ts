@@ -2,7 +2,7 @@
 // write runs in a transaction with its audit entry.
 import { sql } from 'kysely';
 import type { Db } from '$lib/server/db';
-import type { Actor } from '$lib/server/accounts/users';
+import type { Actor } from '$lib/server/audit';
 import { writeAudit } from '$lib/server/audit';
 import { nextColonyCode } from '$lib/server/stock/codes';
 import { colonySchedule, type ColonySchedule } from '$lib/care/schedule';

@@ -48,7 +48,9 @@ async function highestAfter(
 	const pattern = `^${stem.replace(/[^A-Za-z0-9-]/g, '')}[0-9]+$`;
 	const row = await trx
 		.selectFrom(table)
-		.select(sql<number>`coalesce(max(substring(code from ${stem.length + 1}::int)::int), 0)`.as('top'))
+		.select(
+			sql<number>`coalesce(max(substring(code from ${stem.length + 1}::int)::int), 0)`.as('top')
+		)
 		.where('code', '~', pattern)
 		.executeTakeFirstOrThrow();
 	return Number(row.top);

@@ -3,7 +3,7 @@
 // young found become clutches in the same transaction as the check that found them.
 import { sql } from 'kysely';
 import type { Db } from '$lib/server/db';
-import type { Actor } from '$lib/server/accounts/users';
+import type { Actor } from '$lib/server/audit';
 import type { ClutchStage, SizeClass, TubState } from '$lib/server/db/schema';
 import { writeAudit } from '$lib/server/audit';
 import { insertClutches, type MadeClutch } from '$lib/server/clutches/create';

@@ -19,6 +19,8 @@ import {
 	updateCareEntry
 } from '$lib/server/care/care-log';
 import { findColonyPage } from '$lib/server/colonies/colonies';
+import { defaultRecipe } from '$lib/server/care/recipes';
+import { listPhotos } from '$lib/server/uploads/photos';
 import { getDb } from '$lib/server/db';
 import type { CareEntryKind } from '$lib/server/db/schema';
 import type { Actions, PageServerLoad } from './$types';
@@ -45,9 +47,15 @@ export const load: PageServerLoad = async (event) => {
 	const kind = kindFrom(event.url.searchParams.get('log'));
 	const editId = Number(event.url.searchParams.get('edit'));
 	const editing = Number.isInteger(editId) && editId > 0 ? await findCareEntry(db, editId) : null;
-	const timeline = await colonyTimeline(db, colony.id, 15);
+	const [timeline, recipe, photos] = await Promise.all([
+		colonyTimeline(db, colony.id, 15),
+		defaultRecipe(db),
+		listPhotos(db, { kind: 'colony', id: colony.id })
+	]);
 	return {
 		colony,
+		recipe,
+		photos,
 		today,
 		timeZone,
 		timeline,
