@@ -61,6 +61,20 @@ describe('back office on PostgreSQL', () => {
 	const entry = (over: Record<string, unknown>) =>
 		careEntrySchema.parse({ loggedOn: TODAY, note: '', ...over });
 
+	/** A new colony with a half refresh logged on `loggedOn`, its substrate set aside. */
+	async function refreshedColony(name: string, loggedOn: string) {
+		const colony = await newColony(name);
+		const logged = await logCareEntry(
+			scratch.db,
+			actor,
+			colony.id,
+			entry({ kind: 'substrate_refresh_half', loggedOn }),
+			TODAY
+		);
+		if (!logged.ok) throw new Error(logged.problem);
+		return { colony, logged };
+	}
+
 	it('gives a new colony the next code of its species', async () => {
 		const colony = await newColony('Test bin one');
 		// The demo has NAR-01 and NAR-02.
@@ -151,15 +165,7 @@ describe('back office on PostgreSQL', () => {
 	});
 
 	it('turns 14 young into a clutch of the next generation in the same transaction as the check', async () => {
-		const colony = await newColony('Test bin six');
-		const logged = await logCareEntry(
-			scratch.db,
-			actor,
-			colony.id,
-			entry({ kind: 'substrate_refresh_half', loggedOn: '2026-11-01' }),
-			TODAY
-		);
-		if (!logged.ok) throw new Error(logged.problem);
+		const { colony, logged } = await refreshedColony('Test bin six', '2026-11-01');
 		const checked = await recordTubCheck(
 			scratch.db,
 			actor,
@@ -193,15 +199,7 @@ describe('back office on PostgreSQL', () => {
 	});
 
 	it('splits the young into several clutches when asked, and refuses counts that do not add up', async () => {
-		const colony = await newColony('Test bin seven');
-		const logged = await logCareEntry(
-			scratch.db,
-			actor,
-			colony.id,
-			entry({ kind: 'substrate_refresh_half', loggedOn: '2026-11-01' }),
-			TODAY
-		);
-		if (!logged.ok) throw new Error(logged.problem);
+		const { logged } = await refreshedColony('Test bin seven', '2026-11-01');
 		const bad = tubCheckSchema.safeParse({
 			checkedOn: TODAY,
 			youngFound: 10,
@@ -233,15 +231,7 @@ describe('back office on PostgreSQL', () => {
 	});
 
 	it('leaves neither check nor clutch behind when making the clutch fails', async () => {
-		const colony = await newColony('Test bin eight');
-		const logged = await logCareEntry(
-			scratch.db,
-			actor,
-			colony.id,
-			entry({ kind: 'substrate_refresh_half', loggedOn: '2026-11-01' }),
-			TODAY
-		);
-		if (!logged.ok) throw new Error(logged.problem);
+		const { logged } = await refreshedColony('Test bin eight', '2026-11-01');
 		const tubId = logged.value.tub!.id;
 		// A trigger that refuses this tub's clutches stands in for any failure mid-step.
 		await sql
@@ -281,15 +271,7 @@ describe('back office on PostgreSQL', () => {
 	});
 
 	it('refuses young found before the tub was set aside, and clears an empty tub only after its hold', async () => {
-		const colony = await newColony('Test bin nine');
-		const logged = await logCareEntry(
-			scratch.db,
-			actor,
-			colony.id,
-			entry({ kind: 'substrate_refresh_half', loggedOn: '2026-11-20' }),
-			TODAY
-		);
-		if (!logged.ok) throw new Error(logged.problem);
+		const { logged } = await refreshedColony('Test bin nine', '2026-11-20');
 		const tubId = logged.value.tub!.id;
 		const early = await recordTubCheck(
 			scratch.db,
