@@ -11,6 +11,7 @@ import {
 import { requireRole } from '$lib/server/auth/guard';
 import { clientAddress } from '$lib/server/auth/requests';
 import { shopClock } from '$lib/server/backoffice/settings';
+import { formatShopDate } from '$lib/format/dates';
 import {
 	colonyTimeline,
 	deleteCareEntry,
@@ -116,7 +117,7 @@ export const actions: Actions = {
 		return message(
 			fresh,
 			tub
-				? `Logged. The removed substrate is resting tub ${tub.code}, held until ${tub.holdUntil}.`
+				? `Logged. The removed substrate is resting tub ${tub.code}, held until ${formatShopDate(tub.holdUntil, 'UTC')}.`
 				: 'Logged.'
 		);
 	},

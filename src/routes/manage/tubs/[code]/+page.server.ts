@@ -6,6 +6,7 @@ import { closeTubSchema, holdSchema, tubCheckSchema, type TubCheckForm } from '$
 import { requireRole } from '$lib/server/auth/guard';
 import { clientAddress } from '$lib/server/auth/requests';
 import { shopClock } from '$lib/server/backoffice/settings';
+import { formatShopDate } from '$lib/format/dates';
 import { getDb } from '$lib/server/db';
 import { changeHoldUntil, closeTub, findTubPage, recordTubCheck } from '$lib/server/tubs/tubs';
 import type { Actions, PageServerLoad } from './$types';
@@ -78,7 +79,7 @@ export const actions: Actions = {
 			fresh,
 			made.length === 0
 				? 'Check recorded.'
-				: `Check recorded. ${made.map((c) => `${c.code} (${c.count})`).join(', ')} ${made.length === 1 ? 'is a new clutch' : 'are new clutches'}, projected sale-ready ${made[0]?.saleReadyOn}.`
+				: `Check recorded. ${made.map((c) => `${c.code} (${c.count})`).join(', ')} ${made.length === 1 ? 'is a new clutch' : 'are new clutches'}, projected sale-ready ${made[0] ? formatShopDate(made[0].saleReadyOn, 'UTC') : ''}.`
 		);
 	},
 	hold: async (event) => {
