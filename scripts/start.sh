@@ -6,7 +6,7 @@ source "$(dirname "${BASH_SOURCE[0]}")/lib.sh"
 load_env
 started_at=$(date +%s)
 
-for taken in "$PORT" "$MAIL_CATCHER_SMTP_PORT" "$MAIL_CATCHER_HTTP_PORT"; do
+for taken in "$PORT" "$MAIL_CATCHER_SMTP_PORT" "$MAIL_CATCHER_HTTP_PORT" "$WEATHER_FAKE_PORT"; do
 	if port_in_use "$taken"; then
 		die "Port $taken on 127.0.0.1 is already taken (is Hatchlot running in another terminal?); stop that program or change the port in .env."
 	fi
@@ -51,6 +51,11 @@ say "starting the local mail catcher on 127.0.0.1:$MAIL_CATCHER_SMTP_PORT (outbo
 node_modules/.bin/tsx tests/fakes/mail-catcher.ts &
 FAKE_PIDS+=($!)
 wait_for_port "$MAIL_CATCHER_HTTP_PORT" "${FAKE_PIDS[-1]}" "the mail catcher"
+
+say "starting the local forecast service on http://127.0.0.1:$WEATHER_FAKE_PORT (the shop asks $WEATHER_API_URL)…"
+node_modules/.bin/tsx tests/fakes/weather-fake.ts &
+FAKE_PIDS+=($!)
+wait_for_port "$WEATHER_FAKE_PORT" "${FAKE_PIDS[-1]}" "the forecast fake"
 
 say "starting the app on http://$HOST:$PORT …"
 node build &

@@ -8,6 +8,9 @@ const baseURL = `http://127.0.0.1:${port}`;
 const catcherSmtp = 2526;
 const catcherHttp = 2581;
 export const outboxApi = `http://127.0.0.1:${catcherHttp}`;
+// The e2e run's own forecast fake (its /test/* controls set places and failures).
+const weatherPort = 2591;
+export const weatherApi = `http://127.0.0.1:${weatherPort}`;
 
 export default defineConfig({
 	testDir: '.',
@@ -56,6 +59,14 @@ export default defineConfig({
 			}
 		},
 		{
+			command: 'node_modules/.bin/tsx tests/fakes/weather-fake.ts',
+			cwd: '../..',
+			url: `${weatherApi}/health`,
+			reuseExistingServer: false,
+			timeout: 30_000,
+			env: { WEATHER_FAKE_PORT: String(weatherPort) }
+		},
+		{
 			command: 'node build',
 			cwd: '../..',
 			url: `${baseURL}/api/health`,
@@ -69,6 +80,7 @@ export default defineConfig({
 				AUTH_SECRET: process.env.AUTH_SECRET ?? 'e2e-only-secret-0123456789abcdef0123456789',
 				SMTP_URL: `smtp://127.0.0.1:${catcherSmtp}`,
 				MAIL_CATCHER_URL: outboxApi,
+				WEATHER_API_URL: weatherApi,
 				SHOP_TIME_ZONE: 'America/New_York'
 			}
 		}

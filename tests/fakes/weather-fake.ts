@@ -1,0 +1,46 @@
+// The local forecast service for `npm start` and the browser tests (see
+// tests/fakes/weather/server.ts for what it serves and its test controls).
+//
+//   node_modules/.bin/tsx tests/fakes/weather-fake.ts
+//
+// env: WEATHER_FAKE_PORT (2590); it listens on 127.0.0.1 only.
+import { startWeatherFake } from './weather/server';
+
+function portFrom(value: string | undefined, fallback: number): number {
+	if (value === undefined || value.trim() === '') return fallback;
+	const port = Number(value);
+	if (!Number.isInteger(port) || port < 0 || port > 65535) {
+		throw new RangeError(`WEATHER_FAKE_PORT must be a port number, got ${value}`);
+	}
+	return port;
+}
+
+async function main(): Promise<void> {
+	const fake = await startWeatherFake({
+		port: portFrom(process.env.WEATHER_FAKE_PORT, 2590),
+		log: (line) => console.log(line)
+	});
+	console.log(`[weather-fake] forecasts on ${fake.url}/v1/forecast`);
+	let stopping = false;
+	const stop = (signal: string) => {
+		if (stopping) return;
+		stopping = true;
+		fake
+			.stop()
+			.then(() => {
+				console.log(`[weather-fake] stopped (${signal})`);
+				process.exit(0);
+			})
+			.catch((error: Error) => {
+				console.error(`[weather-fake] could not stop cleanly: ${error.message}`);
+				process.exit(1);
+			});
+	};
+	process.on('SIGINT', () => stop('SIGINT'));
+	process.on('SIGTERM', () => stop('SIGTERM'));
+}
+
+main().catch((error: Error) => {
+	console.error(`[weather-fake] ${error.message}`);
+	process.exit(1);
+});
