@@ -107,7 +107,8 @@ export interface DemoShipCheck {
 }
 
 export interface ShipReason {
-	rule: 'heat_pack' | 'cold_pack' | 'hold_cold' | 'facility_pickup';
+	// The rule names of src/lib/shipping/ship-check.ts, so the pages describe demo checks too.
+	rule: 'heat_pack' | 'cold_pack' | 'hold_below' | 'facility_pickup_cold' | 'facility_pickup_heat';
 	place: 'origin' | 'destination';
 	zip: string;
 	date: string;
@@ -733,12 +734,12 @@ function shipDecision(
 		const cold = packs.includes('heat');
 		const valueF = cold ? destination.lowF : destination.highF;
 		reasons.push({
-			rule: 'facility_pickup',
+			rule: cold ? 'facility_pickup_cold' : 'facility_pickup_heat',
 			place: 'destination',
 			zip: ctx.zip,
 			date: deliveryDate,
 			valueF,
-			limitF: cold ? t.holdBelowF : t.holdAboveF,
+			limitF: cold ? t.heatPackBelowF : t.coldPackAboveF,
 			text: `${valueF} °F (${fToC(valueF)} °C) is between the pack and hold limits: suggest pickup at a staffed carrier facility.`
 		});
 	}
@@ -769,7 +770,7 @@ function holdDecision(
 	const snap = DESTINATION_FORECAST.cold_snap;
 	const limit = DEMO_SHOP.thresholds.holdBelowF;
 	const reasons: ShipReason[] = days.slice(1).map((date) => ({
-		rule: 'hold_cold',
+		rule: 'hold_below',
 		place: 'destination',
 		zip: ctx.zip,
 		date,

@@ -10,6 +10,8 @@ export const JOB_SCHEMA = 'pgboss';
 export const MAIL_SEND_QUEUE = 'mail-send';
 /** Re-enqueues queued rows whose job went missing (a crash between two steps). */
 export const MAIL_SWEEP_QUEUE = 'mail-sweep';
+/** Once a day: every open order's ship check again, for the shop-local date. */
+export const SHIP_RECHECK_QUEUE = 'ship-recheck';
 
 export interface MailSendJob {
 	outgoingMailId: number;

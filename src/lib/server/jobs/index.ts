@@ -1,6 +1,7 @@
-// Background jobs on pg-boss: the mail worker and the sweeper that re-enqueues mail
-// whose job went missing. Call startJobs once per process (hooks.server.ts `init`);
-// it never throws for an unreachable database but keeps trying in the background.
+// Background jobs on pg-boss: the mail worker, the sweeper that re-enqueues mail
+// whose job went missing, and the daily ship re-check. Call startJobs once per
+// process (hooks.server.ts `init`); it never throws for an unreachable database but
+// keeps trying in the background.
 //
 // No $env or $app imports: integration tests start jobs with their own values.
 import type { Kysely } from 'kysely';
@@ -17,15 +18,31 @@ import {
 	sweepUnsentMail
 } from '../mail';
 import { describeSmtpUrl, mailConfigFrom, type MailConfig } from '../mail/config';
+import { resolveShopTimeZone } from '../backoffice/settings';
+import { todayInZone } from '../../format/dates';
 import {
 	JOB_SCHEMA,
 	MAIL_SEND_QUEUE,
 	MAIL_SWEEP_QUEUE,
+	SHIP_RECHECK_QUEUE,
 	setRunningBoss,
 	type MailSendJob
 } from './boss';
 
-export { getBoss, JOB_SCHEMA, MAIL_SEND_QUEUE, MAIL_SWEEP_QUEUE } from './boss';
+export { getBoss, JOB_SCHEMA, MAIL_SEND_QUEUE, MAIL_SWEEP_QUEUE, SHIP_RECHECK_QUEUE } from './boss';
+
+/**
+ * The daily ship re-check, handed in by the app (jobs/env.ts) so this module needs
+ * no forecast provider of its own; tests and scripts that leave it out get no schedule.
+ */
+export interface ShipRecheckOptions {
+	/** One day's re-check for the shop-local date `today`; returns a line for the log. */
+	run: (db: Kysely<Database>, today: string) => Promise<string>;
+	/** When it runs, in the shop's own time zone (default 06:15, before the morning's packing). */
+	cron?: string;
+	/** The zone when the settings row has none (SHOP_TIME_ZONE). */
+	timeZoneFallback?: string;
+}
 
 export interface JobsOptions {
 	/** PostgreSQL of the app; pg-boss keeps its tables in the `pgboss` schema there. */
@@ -43,6 +60,7 @@ export interface JobsOptions {
 	startRetrySeconds?: number;
 	/** Where the one-line reports go; console.warn unless given. */
 	log?: (line: string) => void;
+	shipRecheck?: ShipRecheckOptions;
 }
 
 export interface JobRunner {
@@ -55,6 +73,8 @@ export interface JobRunner {
 
 /** The cron of the sweep; every 5 minutes is well inside the 10 minutes a row may wait. */
 const SWEEP_CRON = '*/5 * * * *';
+/** 06:15 shop time: forecasts for the day are out, and the keepers have not started packing. */
+export const SHIP_RECHECK_CRON = '15 6 * * *';
 
 let active: JobRunner | undefined;
 
@@ -129,6 +149,31 @@ async function createQueues(
 		expireInSeconds: 300
 	};
 	await boss.createQueue(MAIL_SWEEP_QUEUE, sweepQueue);
+	const recheckQueue: PgBoss.Queue = {
+		name: SHIP_RECHECK_QUEUE,
+		// One waiting and one running at most: a late run never piles up behind another.
+		policy: 'stately',
+		// A run that failed as a whole (database gone) tries again; checks are safe to repeat.
+		retryLimit: 2,
+		retryDelay: 600,
+		expireInSeconds: 1800
+	};
+	await boss.createQueue(SHIP_RECHECK_QUEUE, recheckQueue);
+}
+
+async function scheduleShipRecheck(
+	boss: PgBoss,
+	db: Kysely<Database>,
+	recheck: ShipRecheckOptions,
+	log: (line: string) => void
+): Promise<void> {
+	await boss.work(SHIP_RECHECK_QUEUE, { pollingIntervalSeconds: 60 }, async () => {
+		// The zone is read per run, so a changed setting counts from the next morning's run.
+		const today = todayInZone(await resolveShopTimeZone(db, recheck.timeZoneFallback));
+		log(`[ship-recheck] ${today}: ${await recheck.run(db, today)}`);
+	});
+	const tz = await resolveShopTimeZone(db, recheck.timeZoneFallback);
+	await boss.schedule(SHIP_RECHECK_QUEUE, recheck.cron ?? SHIP_RECHECK_CRON, {}, { tz });
 }
 
 /**
@@ -192,6 +237,7 @@ async function startOnce(
 				log(`[mail] sweep re-enqueued ${requeued.map((id) => `#${id}`).join(', ')}`);
 		});
 		await boss.schedule(MAIL_SWEEP_QUEUE, SWEEP_CRON);
+		if (options.shipRecheck) await scheduleShipRecheck(boss, db, options.shipRecheck, log);
 		return { boss, pool, db };
 	} catch (error) {
 		await boss.stop({ graceful: false, wait: true }).catch(() => undefined);

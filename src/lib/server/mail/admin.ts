@@ -32,7 +32,9 @@ const kindLabels: Record<MailKind, string> = {
 	sign_in_link: 'Sign-in link',
 	password_reset: 'Password reset',
 	account_exists: 'Account already exists',
-	password_changed: 'Password changed'
+	password_changed: 'Password changed',
+	ship_date_set: 'Ship date set',
+	ship_date_lost: 'Ship date withdrawn'
 };
 
 export function mailKindLabel(kind: string): string {

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import {
+	LOST_DATE_REASONS_SHOWN,
 	MAIL_KINDS,
 	checkedLink,
 	escapeHtml,
@@ -16,7 +17,30 @@ const oneOfEach: MailMessage[] = [
 	{ kind: 'sign_in_link', to: 'ada@example.com', url: link, expiresInMinutes: 15 },
 	{ kind: 'password_reset', to: 'ada@example.com', name: 'Ada', url: link, expiresInMinutes: 60 },
 	{ kind: 'account_exists', to: 'ada@example.com', url: link, expiresInMinutes: 60 },
-	{ kind: 'password_changed', to: 'ada@example.com', name: 'Ada' }
+	{ kind: 'password_changed', to: 'ada@example.com', name: 'Ada' },
+	{
+		kind: 'ship_date_set',
+		to: 'ada@example.com',
+		name: 'Ada',
+		orderNumber: 'HL-10012',
+		service: 'overnight',
+		shipDate: '2026-12-08',
+		deliveryDate: '2026-12-09',
+		packs: ['heat'],
+		facilityPickup: true,
+		previousShipDate: null
+	},
+	{
+		kind: 'ship_date_lost',
+		to: 'ada@example.com',
+		name: 'Ada',
+		orderNumber: 'HL-10011',
+		previousShipDate: '2026-12-02',
+		heldBy: 'forecast',
+		reasons: [
+			'Low of 14 °F (−10 °C) at the destination on Wed, Dec 2, 2026 is below the 25 °F (−4 °C) hold limit.'
+		]
+	}
 ];
 
 /** Tags as a mail client would read them: "<" followed by a letter, "/" or "!". */
@@ -114,6 +138,93 @@ describe('renderMail', () => {
 		).toThrow(RangeError);
 		expect(() => checkedLink('/relative/path')).toThrow(RangeError);
 		expect(checkedLink('http://127.0.0.1:3000/x')).toBe('http://127.0.0.1:3000/x');
+	});
+});
+
+describe('ship date mail', () => {
+	// Weekdays checked with Python's datetime: 2026-12-02 Wednesday, 2026-12-08 Tuesday.
+	it('tells a held order its ship and delivery dates, its pack, pickup and the cautions', () => {
+		const mail = renderMail(oneOfEach[5]!, shop);
+		expect(mail.subject).toBe('Your Mossback Hollow Inverts order HL-10012 ships Tue, Dec 8, 2026');
+		expect(mail.text).toContain('the weather on the route has settled');
+		expect(mail.text).toContain(
+			'It ships on Tue, Dec 8, 2026 by overnight service and should arrive on Wed, Dec 9, 2026.'
+		);
+		expect(mail.text).toContain('with a heat pack');
+		expect(mail.text).not.toContain('cold pack');
+		expect(mail.text).toContain('collect it that same day');
+		for (const title of ['Heat packs in a sealed box', "Your state's rules"]) {
+			expect(mail.text).toContain(title);
+		}
+		expect(mail.html).toContain('USDA APHIS');
+		expect(mail.html).toContain('Your state&#39;s rules');
+	});
+
+	it('says where a moved date moved from', () => {
+		const moved = { ...(oneOfEach[5] as Extract<MailMessage, { kind: 'ship_date_set' }>) };
+		moved.previousShipDate = '2026-12-02';
+		moved.packs = [];
+		moved.facilityPickup = false;
+		const mail = renderMail(moved, shop);
+		expect(mail.subject).toBe(
+			'New ship date for your Mossback Hollow Inverts order HL-10012: Tue, Dec 8, 2026'
+		);
+		expect(mail.text).toContain('has moved from Wed, Dec 2, 2026 to Tue, Dec 8, 2026');
+		expect(mail.text).not.toContain('pack, because');
+		expect(mail.text).not.toContain('carrier facility for pickup rather');
+	});
+
+	it('tells a scheduled order why its date is gone and what happens next', () => {
+		const mail = renderMail(oneOfEach[6]!, shop);
+		expect(mail.subject).toBe(
+			'Your Mossback Hollow Inverts order HL-10011 is waiting for safe weather'
+		);
+		expect(mail.text).toContain('was due to ship on Wed, Dec 2, 2026');
+		expect(mail.text).toContain('– Low of 14 °F (−10 °C) at the destination');
+		expect(mail.text).toContain('checked again every morning');
+	});
+
+	it('names the first few reasons of a long hold and counts the rest', () => {
+		const reasons = Array.from({ length: LOST_DATE_REASONS_SHOWN + 2 }, (_, i) => `Reading ${i}.`);
+		const mail = renderMail(
+			{ ...(oneOfEach[6] as Extract<MailMessage, { kind: 'ship_date_lost' }>), reasons },
+			shop
+		);
+		expect(mail.text).toContain(`– Reading ${LOST_DATE_REASONS_SHOWN - 1}.`);
+		expect(mail.text).not.toContain(`Reading ${LOST_DATE_REASONS_SHOWN}.`);
+		expect(mail.text).toContain('– and 2 more readings like these.');
+		const none = renderMail(
+			{ ...(oneOfEach[6] as Extract<MailMessage, { kind: 'ship_date_lost' }>), reasons: [] },
+			shop
+		);
+		expect(none.text).toContain('outside what the animals can travel in');
+		expect(none.text).not.toContain('What the forecast says');
+	});
+
+	it("does not blame the forecast for a keeper's hold", () => {
+		const mail = renderMail(
+			{
+				...(oneOfEach[6] as Extract<MailMessage, { kind: 'ship_date_lost' }>),
+				heldBy: 'keeper'
+			},
+			shop
+		);
+		expect(mail.text).toContain('the shop has put it on hold to keep the animals safe');
+		expect(mail.text).not.toContain('forecast rules that out');
+		expect(mail.text).not.toContain('What the forecast says');
+		expect(mail.text).not.toContain('Low of 14');
+	});
+
+	it('escapes a reason with markup in it', () => {
+		const mail = renderMail(
+			{
+				...(oneOfEach[6] as Extract<MailMessage, { kind: 'ship_date_lost' }>),
+				reasons: ['<b>x</b>']
+			},
+			shop
+		);
+		expect(mail.html).toContain('&lt;b&gt;x&lt;/b&gt;');
+		expect(mail.html).not.toContain('<b>x</b>');
 	});
 });
 

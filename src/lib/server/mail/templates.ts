@@ -3,6 +3,10 @@
 //
 // Mail clients ignore style sheets and web fonts unevenly, so the HTML is a single
 // table column with inline styles, and the same words are always in the text part.
+//
+// Relative imports: scripts load this module through the job runner, outside SvelteKit.
+import { formatShopDate } from '../../format/dates';
+import { shippingCautions } from '../../shipping/cautions';
 
 /** Every e-mail the shop sends, as the data it is rendered from. */
 export type MailMessage =
@@ -23,7 +27,34 @@ export type MailMessage =
 	  }
 	/** Sent instead of a verification when the address already has an account; `url` resets its password. */
 	| { kind: 'account_exists'; to: string; url: string; expiresInMinutes: number }
-	| { kind: 'password_changed'; to: string; name: string | null };
+	| { kind: 'password_changed'; to: string; name: string | null }
+	/** A held order got a ship date, or a scheduled one moved to a later date. */
+	| {
+			kind: 'ship_date_set';
+			to: string;
+			name: string | null;
+			orderNumber: string;
+			service: 'overnight' | 'two_day';
+			shipDate: string;
+			deliveryDate: string;
+			packs: ('heat' | 'cold')[];
+			facilityPickup: boolean;
+			/** The date it had before, when a set date moved; null when it was on weather hold. */
+			previousShipDate: string | null;
+	  }
+	/**
+	 * A scheduled order lost its date: to the forecast (`reasons` are the check's
+	 * sentences) or to a keeper's hold, whose own reason stays in the back office.
+	 */
+	| {
+			kind: 'ship_date_lost';
+			to: string;
+			name: string | null;
+			orderNumber: string;
+			previousShipDate: string;
+			heldBy: 'forecast' | 'keeper';
+			reasons: string[];
+	  };
 
 export type MailKind = MailMessage['kind'];
 
@@ -32,7 +63,9 @@ export const MAIL_KINDS = [
 	'sign_in_link',
 	'password_reset',
 	'account_exists',
-	'password_changed'
+	'password_changed',
+	'ship_date_set',
+	'ship_date_lost'
 ] as const satisfies readonly MailKind[];
 
 export interface RenderedMail {
@@ -187,6 +220,23 @@ ${letter.after.map(p).join('\n')}
 	return { subject: letter.subject, html, text: lines.join('\n') };
 }
 
+/** "Tue, Dec 8, 2026". Calendar dates carry no zone; 'UTC' only tells the formatter not to shift the day. */
+function calendarDay(date: string): string {
+	return formatShopDate(date, 'UTC');
+}
+
+const SERVICE_WORDS: Record<'overnight' | 'two_day', string> = {
+	overnight: 'overnight',
+	two_day: 'two-day'
+};
+
+/** A hold can name many ruled-out days; the mail names the first few and counts the rest. */
+export const LOST_DATE_REASONS_SHOWN = 4;
+
+function cautionParagraphs(): Paragraph[] {
+	return shippingCautions.map((caution) => [{ strong: `${caution.title}.` }, ` ${caution.text}`]);
+}
+
 function hello(name: string | null): string {
 	const clean = name ? oneLine(name) : '';
 	return clean ? `Hello ${clean},` : 'Hello,';
@@ -307,5 +357,111 @@ export function renderMail(message: MailMessage, shop: MailShop): RenderedMail {
 				},
 				shopName
 			);
+		case 'ship_date_set': {
+			const order = oneLine(message.orderNumber);
+			const shipOn = calendarDay(message.shipDate);
+			const arrives = calendarDay(message.deliveryDate);
+			const service = SERVICE_WORDS[message.service];
+			const opening: Paragraph = message.previousShipDate
+				? [
+						'The ship date of your order ',
+						{ strong: order },
+						` has moved from ${calendarDay(message.previousShipDate)} to ${shipOn}: the forecast changed, and that is the first day it is safe for the animals to travel.`
+					]
+				: [
+						'Good news: the weather on the route has settled, and your order ',
+						{ strong: order },
+						' has a ship date.'
+					];
+			const packing: Paragraph[] = [];
+			if (message.packs.includes('heat'))
+				packing.push([
+					'The box goes out with a heat pack, because the forecast on the route is cool.'
+				]);
+			if (message.packs.includes('cold'))
+				packing.push([
+					'The box goes out with a cold pack, because the forecast on the route is hot.'
+				]);
+			if (message.facilityPickup)
+				packing.push([
+					'The forecast where you are is close to the limit on the delivery day, so please have the box held at a staffed carrier facility for pickup rather than left at the door, and ',
+					{ strong: 'collect it that same day' },
+					'.'
+				]);
+			return renderLetter(
+				{
+					subject: message.previousShipDate
+						? `New ship date for your ${shopName} order ${order}: ${shipOn}`
+						: `Your ${shopName} order ${order} ships ${shipOn}`,
+					preview: `It ships ${shipOn} by ${service} service and should arrive ${arrives}.`,
+					greeting: hello(message.name),
+					before: [
+						opening,
+						[
+							'It ships on ',
+							{ strong: shipOn },
+							` by ${service} service and should arrive on `,
+							{ strong: arrives },
+							'.'
+						],
+						...packing
+					],
+					after: [
+						[
+							'Please plan to be there, or to collect the box, on the delivery day, and open it soon after it comes.'
+						],
+						...cautionParagraphs()
+					],
+					footnote: `${sentTo} You get it because the ship date of your order was set or changed.`
+				},
+				shopName
+			);
+		}
+		case 'ship_date_lost': {
+			const order = oneLine(message.orderNumber);
+			const was = calendarDay(message.previousShipDate);
+			const reasons = message.reasons.map(oneLine).filter((reason) => reason.length > 0);
+			const shown = reasons.slice(0, LOST_DATE_REASONS_SHOWN);
+			const more = reasons.length - shown.length;
+			const forecast: Paragraph[] =
+				message.heldBy === 'forecast' && shown.length > 0
+					? [
+							['What the forecast says:'],
+							...shown.map((reason): Paragraph => [`– ${reason}`]),
+							...(more > 0
+								? [[`– and ${more} more ${more === 1 ? 'reading' : 'readings'} like these.`]]
+								: [])
+						]
+					: [['The forecast on the route is outside what the animals can travel in.']];
+			return renderLetter(
+				{
+					subject: `Your ${shopName} order ${order} is waiting for safe weather`,
+					preview: `It will not ship on ${was}. You get an e-mail as soon as a new date is set.`,
+					greeting: hello(message.name),
+					before: [
+						message.heldBy === 'forecast'
+							? [
+									'Your order ',
+									{ strong: order },
+									` was due to ship on ${was}, but the latest forecast rules that out, so it is on hold: a live animal is never sent into weather it may not survive.`
+								]
+							: [
+									'Your order ',
+									{ strong: order },
+									` was due to ship on ${was}, but the shop has put it on hold to keep the animals safe.`
+								],
+						...(message.heldBy === 'forecast' ? forecast : [])
+					],
+					after: [
+						[
+							'What happens next: the animals stay in our care, and the order is checked again every morning. As soon as a safe ship date is set, you get an e-mail with it. There is nothing you need to do.'
+						],
+						['Questions? Reply to this message.']
+					],
+					footnote: `${sentTo} You get it because the ship date of your order was withdrawn.`
+				},
+				shopName
+			);
+		}
 	}
 }
