@@ -38,6 +38,9 @@ if ! bash scripts/db.sh status; then STARTED_DB=1; fi
 bash scripts/db.sh start
 
 say "migrating $PG_DATABASE…"
+# The scripts import app modules that use the $lib alias; tsx resolves it through the
+# tsconfig paths that svelte-kit sync writes (a fresh clone has none yet).
+npx svelte-kit sync
 npx tsx scripts/migrate.ts latest
 
 say "seeding the demo if the database is empty…"

@@ -32,6 +32,9 @@ if [ "$PG_MANAGED" = "1" ]; then
 	PGPASSWORD="$PG_PASSWORD" psql -X -q -v ON_ERROR_STOP=1 -h 127.0.0.1 -p "$PG_PORT" -U "$PG_USER" -d postgres \
 		-c "drop database if exists \"$PG_TEST_DATABASE\" with (force)" -c "create database \"$PG_TEST_DATABASE\""
 fi
+# The scripts import app modules that use the $lib alias; tsx resolves it through the
+# tsconfig paths that svelte-kit sync writes (a fresh clone has none yet).
+npx svelte-kit sync
 npx tsx scripts/migrate.ts latest
 npx tsx seed/run.ts
 
