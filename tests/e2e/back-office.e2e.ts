@@ -3,8 +3,8 @@
 // the clutch shows in the pipeline, and the due list moves on.
 import { expect, test, type Page } from '@playwright/test';
 import pg from 'pg';
-import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../seed/accounts';
 import { addDays, formatShopDate } from '../../src/lib/format/dates';
+import { signInAsDemo } from './session';
 
 const artifacts = 'tests/artifacts';
 
@@ -36,23 +36,13 @@ async function pipelineTotal(page: Page, commonName: string): Promise<number> {
 	return (await number(0)) + (await number(3)) + (await number(4));
 }
 
-async function signInAs(page: Page, role: 'keeper' | 'admin', next: string) {
-	const who = DEMO_ACCOUNTS.find((a) => a.role === role)!;
-	await page.goto(`/signin?next=${encodeURIComponent(next)}`);
-	const form = page.locator('form[action="?/password"]');
-	await form.getByLabel('E-mail').fill(who.email);
-	await form.getByLabel('Password').fill(DEMO_PASSWORD);
-	await form.getByRole('button', { name: 'Sign in' }).click();
-	await expect(page).toHaveURL(new RegExp(`${next.replace(/\//g, '\\/')}$`));
-}
-
 test('a keeper logs a half refresh, checks the tub, and follows the young into a clutch', async ({
 	page
 }, info) => {
 	// The journey changes the ledger, so it runs once, at the width keepers use at the rack.
 	test.skip(info.project.name !== 'phone', 'runs once, at phone width');
 	test.setTimeout(60_000);
-	await signInAs(page, 'keeper', '/manage');
+	await signInAsDemo(page, 'keeper', '/manage');
 
 	const refreshDue = page.locator('[data-due="refresh"] li').filter({
 		has: page.getByRole('link', { name: 'Log refresh' })

@@ -2,20 +2,14 @@
 // a Duluth order is held for cold with its reason in words, a Tucson order ships
 // with a cold pack and facility-pickup advice.
 import { expect, test } from '@playwright/test';
-import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../seed/accounts';
+import { signInAsDemo } from './session';
 
 const artifacts = 'tests/artifacts';
 
 test('the dispatch board holds the cold order and packs the hot one', async ({ page }, info) => {
 	// The re-checks write ship checks, so this runs once, at desktop width.
 	test.skip(info.project.name !== 'desktop', 'runs once, at desktop width');
-	const keeper = DEMO_ACCOUNTS.find((a) => a.role === 'keeper')!;
-	await page.goto('/signin?next=%2Fmanage%2Fdispatch');
-	const form = page.locator('form[action="?/password"]');
-	await form.getByLabel('E-mail').fill(keeper.email);
-	await form.getByLabel('Password').fill(DEMO_PASSWORD);
-	await form.getByRole('button', { name: 'Sign in' }).click();
-	await expect(page).toHaveURL(/\/manage\/dispatch$/);
+	await signInAsDemo(page, 'keeper', '/manage/dispatch');
 	await expect(page.getByRole('heading', { level: 1, name: 'Dispatch board' })).toBeVisible();
 
 	// Duluth, MN: the fake's lows sit near 10 °F, under the 25 °F hold limit (PRODUCT.md default).

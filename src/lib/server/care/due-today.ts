@@ -6,8 +6,6 @@ import type { IsoDate } from '$lib/format/dates';
 import { clutchesDueSoon } from '$lib/server/stock/pipeline';
 import { dueToday, SALE_READY_WINDOW_DAYS, type DueToday } from '$lib/care/due-today';
 
-const asDate = (value: unknown): IsoDate | null => (value == null ? null : String(value));
-
 export async function loadDueToday(db: Db, today: IsoDate): Promise<DueToday> {
 	const [colonies, tubs, clutches] = await Promise.all([
 		db
@@ -22,11 +20,17 @@ export async function loadDueToday(db: Db, today: IsoDate): Promise<DueToday> {
 				's.refresh_interval_days',
 				's.molt_quiet_days',
 				eb.fn
-					.max('e.logged_on')
+					.max<IsoDate | null>('e.logged_on')
 					.filterWhere('e.kind', 'in', ['substrate_refresh_half', 'substrate_refresh_full'])
 					.as('last_refresh'),
-				eb.fn.max('e.logged_on').filterWhere('e.kind', '=', 'moisture_check').as('last_moisture'),
-				eb.fn.max('e.logged_on').filterWhere('e.kind', '=', 'molt_seen').as('last_molt')
+				eb.fn
+					.max<IsoDate | null>('e.logged_on')
+					.filterWhere('e.kind', '=', 'moisture_check')
+					.as('last_moisture'),
+				eb.fn
+					.max<IsoDate | null>('e.logged_on')
+					.filterWhere('e.kind', '=', 'molt_seen')
+					.as('last_molt')
 			])
 			.where('c.retired_on', 'is', null)
 			.groupBy(['c.id', 's.id'])
@@ -42,7 +46,7 @@ export async function loadDueToday(db: Db, today: IsoDate): Promise<DueToday> {
 				's.common_name',
 				't.started_on',
 				't.hold_until',
-				eb.fn.max('k.checked_on').as('last_check')
+				eb.fn.max<IsoDate | null>('k.checked_on').as('last_check')
 			])
 			.where('t.state', '=', 'resting')
 			.groupBy(['t.id', 'c.id', 's.id'])
@@ -58,9 +62,9 @@ export async function loadDueToday(db: Db, today: IsoDate): Promise<DueToday> {
 				startedOn: row.started_on,
 				refreshIntervalDays: row.refresh_interval_days,
 				moltQuietDays: row.molt_quiet_days,
-				lastRefreshOn: asDate(row.last_refresh),
-				lastMoistureCheckOn: asDate(row.last_moisture),
-				lastMoltSeenOn: asDate(row.last_molt)
+				lastRefreshOn: row.last_refresh,
+				lastMoistureCheckOn: row.last_moisture,
+				lastMoltSeenOn: row.last_molt
 			})),
 			tubs: tubs.map((row) => ({
 				code: row.code,
@@ -68,7 +72,7 @@ export async function loadDueToday(db: Db, today: IsoDate): Promise<DueToday> {
 				speciesName: row.common_name,
 				startedOn: row.started_on,
 				holdUntil: row.hold_until,
-				lastCheckOn: asDate(row.last_check)
+				lastCheckOn: row.last_check
 			})),
 			clutches: clutches.map((row) => ({
 				code: row.code,

@@ -22,7 +22,7 @@ import type {
 import type { Actor } from '$lib/server/accounts/users';
 import { writeAudit } from '$lib/server/audit';
 import { insertClutches } from '$lib/server/clutches/create';
-import { nextClutchCode } from '$lib/server/stock/codes';
+import { nextClutchCodes } from '$lib/server/stock/codes';
 import { daysBetween, todayInZone, type IsoDate } from '$lib/format/dates';
 import { sizeClassLabels, stageLabels } from '$lib/format/labels';
 import {
@@ -638,9 +638,10 @@ async function insertSplitClutches(
 	actor: Actor,
 	happenedOn: IsoDate
 ): Promise<MadeSplitClutch[]> {
+	const codes = await nextClutchCodes(trx, parent.species_id, parts.length);
 	const made: MadeSplitClutch[] = [];
-	for (const part of parts) {
-		const code = await nextClutchCode(trx, parent.species_id);
+	for (const [index, part] of parts.entries()) {
+		const code = codes[index]!;
 		const sizeClass = part.sizeClass ?? parent.size_class;
 		const row = await trx
 			.insertInto('clutch')

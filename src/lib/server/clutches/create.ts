@@ -3,7 +3,7 @@
 import type { Db } from '$lib/server/db';
 import type { ClutchOrigin, ClutchStage, SizeClass } from '$lib/server/db/schema';
 import { projectedSaleReadyOn } from '$lib/stock/clutch-rules';
-import { nextClutchCode } from '$lib/server/stock/codes';
+import { nextClutchCodes } from '$lib/server/stock/codes';
 
 export interface NewClutchPart {
 	count: number;
@@ -37,11 +37,13 @@ export async function insertClutches(
 	actorUserId: string | null
 ): Promise<MadeClutch[]> {
 	const saleReadyOn = projectedSaleReadyOn(input.foundOn, input.growOutWeeks);
-	const made: MadeClutch[] = [];
-	for (const part of input.parts) {
+	for (const part of input.parts)
 		if (!Number.isInteger(part.count) || part.count < 1)
 			throw new RangeError(`a clutch holds at least one animal, got ${part.count}`);
-		const code = await nextClutchCode(trx, input.speciesId);
+	const codes = await nextClutchCodes(trx, input.speciesId, input.parts.length);
+	const made: MadeClutch[] = [];
+	for (const [index, part] of input.parts.entries()) {
+		const code = codes[index]!;
 		const row = await trx
 			.insertInto('clutch')
 			.values({

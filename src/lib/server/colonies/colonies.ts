@@ -119,11 +119,11 @@ export async function updateColony(
 			.select((eb) => eb.fn.min('started_on').as('first'))
 			.where('colony_id', '=', colonyId)
 			.executeTakeFirst();
-		if (earliestTub?.first && daysBetween(String(earliestTub.first), form.startedOn) > 0)
+		if (earliestTub?.first && daysBetween(earliestTub.first, form.startedOn) > 0)
 			return {
 				ok: false as const,
 				field: 'startedOn',
-				problem: `A tub was set aside from this colony on ${String(earliestTub.first)}; it started on or before that.`
+				problem: `A tub was set aside from this colony on ${earliestTub.first}; it started on or before that.`
 			};
 		await trx
 			.updateTable('colony')
@@ -207,6 +207,11 @@ export async function setRetired(
 	});
 }
 
+/** One colony row by its lid code: what actions and the edit form need, in one query. */
+export async function findColony(db: Db, code: string) {
+	return db.selectFrom('colony').selectAll().where('code', '=', code).executeTakeFirst();
+}
+
 export interface ColonyPage {
 	id: number;
 	code: string;
@@ -288,11 +293,14 @@ export async function findColonyPage(
 			.selectFrom('care_log_entry')
 			.select((eb) => [
 				eb.fn
-					.max('logged_on')
+					.max<IsoDate | null>('logged_on')
 					.filterWhere('kind', 'in', ['substrate_refresh_half', 'substrate_refresh_full'])
 					.as('refresh'),
-				eb.fn.max('logged_on').filterWhere('kind', '=', 'moisture_check').as('moisture'),
-				eb.fn.max('logged_on').filterWhere('kind', '=', 'molt_seen').as('molt')
+				eb.fn
+					.max<IsoDate | null>('logged_on')
+					.filterWhere('kind', '=', 'moisture_check')
+					.as('moisture'),
+				eb.fn.max<IsoDate | null>('logged_on').filterWhere('kind', '=', 'molt_seen').as('molt')
 			])
 			.where('colony_id', '=', colony.id)
 			.executeTakeFirstOrThrow(),
@@ -337,14 +345,13 @@ export async function findColonyPage(
 			.limit(30)
 			.execute()
 	]);
-	const asDate = (value: unknown) => (value == null ? null : String(value));
 	const facts = {
 		startedOn: colony.started_on,
 		refreshIntervalDays: colony.refresh_interval_days,
 		moltQuietDays: colony.molt_quiet_days,
-		lastRefreshOn: asDate(lasts.refresh),
-		lastMoistureCheckOn: asDate(lasts.moisture),
-		lastMoltSeenOn: asDate(lasts.molt)
+		lastRefreshOn: lasts.refresh,
+		lastMoistureCheckOn: lasts.moisture,
+		lastMoltSeenOn: lasts.molt
 	};
 	return {
 		id: colony.id,

@@ -68,8 +68,14 @@ export async function nextTubCode(trx: Db, colonyCode: string): Promise<string> 
 	return `${colonyCode}-T${(await highestAfter(trx, 'resting_tub', `${colonyCode}-T`)) + 1}`;
 }
 
-export async function nextClutchCode(trx: Db, speciesId: number): Promise<string> {
+/** The next `count` clutch codes of a species, drawn under one lock for the whole batch. */
+export async function nextClutchCodes(
+	trx: Db,
+	speciesId: number,
+	count: number
+): Promise<string[]> {
 	const prefix = await speciesPrefix(trx, speciesId);
 	await lockCodes(trx, `clutch:${prefix}`);
-	return `${prefix}-C${(await highestAfter(trx, 'clutch', `${prefix}-C`)) + 1}`;
+	const top = await highestAfter(trx, 'clutch', `${prefix}-C`);
+	return Array.from({ length: count }, (_, index) => `${prefix}-C${top + index + 1}`);
 }

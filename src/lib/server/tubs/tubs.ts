@@ -44,6 +44,16 @@ export async function setAsideTub(
 	return { id: row.id, code, holdUntil: input.holdUntil };
 }
 
+/** A tub's id by its lid code, for the actions that only need to name it. */
+export async function findTubId(db: Db, code: string): Promise<number | null> {
+	const row = await db
+		.selectFrom('resting_tub')
+		.select('id')
+		.where('code', '=', code)
+		.executeTakeFirst();
+	return row?.id ?? null;
+}
+
 export interface TubPage {
 	id: number;
 	code: string;

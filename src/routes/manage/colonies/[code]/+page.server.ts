@@ -19,7 +19,7 @@ import {
 	logCareEntry,
 	updateCareEntry
 } from '$lib/server/care/care-log';
-import { findColonyPage } from '$lib/server/colonies/colonies';
+import { findColony, findColonyPage } from '$lib/server/colonies/colonies';
 import { defaultRecipe } from '$lib/server/care/recipes';
 import { listPhotos } from '$lib/server/uploads/photos';
 import { getDb } from '$lib/server/db';
@@ -47,7 +47,9 @@ export const load: PageServerLoad = async (event) => {
 	const colony = await colonyOr404(event.params.code, today);
 	const kind = kindFrom(event.url.searchParams.get('log'));
 	const editId = Number(event.url.searchParams.get('edit'));
-	const editing = Number.isInteger(editId) && editId > 0 ? await findCareEntry(db, editId) : null;
+	const found = Number.isInteger(editId) && editId > 0 ? await findCareEntry(db, editId) : null;
+	// Only an entry of this colony can be edited from its page.
+	const editing = found && found.colony_id === colony.id ? found : null;
 	const [timeline, recipe, photos] = await Promise.all([
 		colonyTimeline(db, colony.id, 15),
 		defaultRecipe(db),
@@ -66,37 +68,39 @@ export const load: PageServerLoad = async (event) => {
 			schema,
 			{ id: 'log', errors: false }
 		),
-		editForm:
-			editing && editing.colony_id === colony.id
-				? await superValidate(
-						{
-							kind: editing.kind,
-							loggedOn: editing.logged_on,
-							moistureReading: editing.moisture_reading ?? undefined,
-							censusCount: editing.census_count ?? undefined,
-							note: editing.note,
-							saveTub: false,
-							holdUntil: ''
-						},
-						schema,
-						{ id: 'edit', errors: false }
-					)
-				: null,
-		deleteForm:
-			editing && editing.colony_id === colony.id
-				? await superValidate({ entryId: editing.id }, zod4(deleteEntrySchema), {
-						id: 'delete',
-						errors: false
-					})
-				: null,
-		editingId: editing && editing.colony_id === colony.id ? editing.id : null
+		editForm: editing
+			? await superValidate(
+					{
+						kind: editing.kind,
+						loggedOn: editing.logged_on,
+						moistureReading: editing.moisture_reading ?? undefined,
+						censusCount: editing.census_count ?? undefined,
+						note: editing.note,
+						saveTub: false,
+						holdUntil: ''
+					},
+					schema,
+					{ id: 'edit', errors: false }
+				)
+			: null,
+		deleteForm: editing
+			? await superValidate({ entryId: editing.id }, zod4(deleteEntrySchema), {
+					id: 'delete',
+					errors: false
+				})
+			: null,
+		editingId: editing?.id ?? null
 	};
 };
 
 async function actionContext(event: Parameters<Actions[string]>[0]) {
 	const me = requireRole(event, 'keeper');
-	const { today } = await shopClock(getDb(), env.SHOP_TIME_ZONE);
-	const colony = await colonyOr404(event.params.code ?? '', today);
+	const db = getDb();
+	const [{ today }, colony] = await Promise.all([
+		shopClock(db, env.SHOP_TIME_ZONE),
+		findColony(db, event.params.code ?? '')
+	]);
+	if (!colony) error(404, `No colony has the code ${event.params.code}.`);
 	return { actor: { userId: me.id, ip: clientAddress(event) }, today, colony };
 }
 

@@ -8,7 +8,13 @@ import { clientAddress } from '$lib/server/auth/requests';
 import { shopClock } from '$lib/server/backoffice/settings';
 import { formatShopDate } from '$lib/format/dates';
 import { getDb } from '$lib/server/db';
-import { changeHoldUntil, closeTub, findTubPage, recordTubCheck } from '$lib/server/tubs/tubs';
+import {
+	changeHoldUntil,
+	closeTub,
+	findTubId,
+	findTubPage,
+	recordTubCheck
+} from '$lib/server/tubs/tubs';
 import type { Actions, PageServerLoad } from './$types';
 
 /** Empty clutch rows to start from; the page adds more on request. */
@@ -56,19 +62,24 @@ export const load: PageServerLoad = async (event) => {
 	};
 };
 
+/** What an action needs: the signed-in keeper, the tub's id and the shop's today. */
+async function actionContext(event: Parameters<Actions[string]>[0]) {
+	const me = requireRole(event, 'keeper');
+	const db = getDb();
+	const [{ today }, tubId] = await Promise.all([
+		shopClock(db, env.SHOP_TIME_ZONE),
+		findTubId(db, event.params.code ?? '')
+	]);
+	if (tubId === null) error(404, `No resting tub has the code ${event.params.code}.`);
+	return { actor: { userId: me.id, ip: clientAddress(event) }, tubId, today };
+}
+
 export const actions: Actions = {
 	check: async (event) => {
-		const me = requireRole(event, 'keeper');
-		const { tub, today } = await tubOr404(event.params.code);
+		const { actor, tubId, today } = await actionContext(event);
 		const form = await superValidate(event.request, zod4(tubCheckSchema), { id: 'check' });
 		if (!form.valid) return fail(400, { checkForm: form });
-		const outcome = await recordTubCheck(
-			getDb(),
-			{ userId: me.id, ip: clientAddress(event) },
-			tub.id,
-			form.data,
-			today
-		);
+		const outcome = await recordTubCheck(getDb(), actor, tubId, form.data, today);
 		if (!outcome.ok) return setError(form, outcome.field as 'checkedOn', outcome.problem);
 		const made = outcome.value.clutches;
 		const fresh = await superValidate(blankCheck(today), zod4(tubCheckSchema), {
@@ -83,28 +94,21 @@ export const actions: Actions = {
 		);
 	},
 	hold: async (event) => {
-		const me = requireRole(event, 'keeper');
-		const { tub } = await tubOr404(event.params.code);
+		const { actor, tubId } = await actionContext(event);
 		const form = await superValidate(event.request, zod4(holdSchema), { id: 'hold' });
 		if (!form.valid) return fail(400, { holdForm: form });
-		const outcome = await changeHoldUntil(
-			getDb(),
-			{ userId: me.id, ip: clientAddress(event) },
-			tub.id,
-			form.data.holdUntil
-		);
+		const outcome = await changeHoldUntil(getDb(), actor, tubId, form.data.holdUntil);
 		if (!outcome.ok) return setError(form, 'holdUntil', outcome.problem);
 		return message(form, 'Hold date saved.');
 	},
 	close: async (event) => {
-		const me = requireRole(event, 'keeper');
-		const { tub, today } = await tubOr404(event.params.code);
+		const { actor, tubId, today } = await actionContext(event);
 		const form = await superValidate(event.request, zod4(closeTubSchema), { id: 'close' });
 		if (!form.valid) return fail(400, { closeForm: form });
 		const outcome = await closeTub(
 			getDb(),
-			{ userId: me.id, ip: clientAddress(event) },
-			tub.id,
+			actor,
+			tubId,
 			form.data.closedOn,
 			form.data.note,
 			today

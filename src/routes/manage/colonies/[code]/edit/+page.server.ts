@@ -7,7 +7,7 @@ import { requireRole } from '$lib/server/auth/guard';
 import { clientAddress } from '$lib/server/auth/requests';
 import { shopClock } from '$lib/server/backoffice/settings';
 import {
-	findColonyPage,
+	findColony,
 	setRetired,
 	speciesChoices,
 	updateColony
@@ -16,8 +16,11 @@ import { getDb } from '$lib/server/db';
 import type { Actions, PageServerLoad } from './$types';
 
 async function colonyOr404(code: string) {
-	const { today } = await shopClock(getDb(), env.SHOP_TIME_ZONE);
-	const colony = await findColonyPage(getDb(), code, today);
+	const db = getDb();
+	const [{ today }, colony] = await Promise.all([
+		shopClock(db, env.SHOP_TIME_ZONE),
+		findColony(db, code)
+	]);
 	if (!colony) error(404, `No colony has the code ${code}.`);
 	return { colony, today };
 }
@@ -26,19 +29,19 @@ export const load: PageServerLoad = async (event) => {
 	requireRole(event, 'keeper');
 	const { colony, today } = await colonyOr404(event.params.code);
 	return {
-		colony: { code: colony.code, name: colony.name, retiredOn: colony.retiredOn },
+		colony: { code: colony.code, name: colony.name, retiredOn: colony.retired_on },
 		species: await speciesChoices(getDb()),
 		form: await superValidate(
 			{
-				speciesId: colony.species.id,
+				speciesId: colony.species_id,
 				name: colony.name,
-				lengthIn: colony.lengthIn,
-				widthIn: colony.widthIn,
-				depthIn: colony.depthIn,
-				foundersCount: colony.foundersCount,
-				foundersNote: colony.foundersNote,
+				lengthIn: Number(colony.enclosure_length_in),
+				widthIn: Number(colony.enclosure_width_in),
+				depthIn: Number(colony.substrate_depth_in),
+				foundersCount: colony.founders_count,
+				foundersNote: colony.founders_note,
 				generation: colony.generation,
-				startedOn: colony.startedOn,
+				startedOn: colony.started_on,
 				notes: colony.notes
 			},
 			zod4(colonySchema),
@@ -76,14 +79,14 @@ export const actions: Actions = {
 			getDb(),
 			{ userId: me.id, ip: clientAddress(event) },
 			colony.id,
-			colony.retiredOn ? null : form.data.retiredOn,
+			colony.retired_on ? null : form.data.retiredOn,
 			form.data.reason,
 			today
 		);
 		if (!outcome.ok) return setError(form, 'retiredOn', outcome.problem);
 		return message(
 			form,
-			colony.retiredOn
+			colony.retired_on
 				? 'Back in the care schedule.'
 				: 'Retired: it leaves the care schedule and the due list.'
 		);
