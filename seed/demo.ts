@@ -1,6 +1,7 @@
 // Writes the demo scenario of Mossback Hollow Inverts into the database, in one
 // transaction. Idempotent: each parent row is found by its natural key and inserted only
 // if missing, and child rows are added only under parents inserted by this same run.
+import { basePriceCents } from '../src/lib/money/pricing';
 import type { Kysely, Transaction } from 'kysely';
 import type { Database } from '../src/lib/server/db/schema';
 import { hashPassword } from '../src/lib/server/auth/passwords';
@@ -492,6 +493,7 @@ async function writeDemo(
 				is_live: l.isLive,
 				state: l.state,
 				supply_stock: l.supplyStock,
+				base_price_cents: basePriceCents(l.tiers, l.unitSize),
 				published_at: l.publishedAt,
 				created_at: instant(l.createdAt),
 				updated_at: l.publishedAt ?? l.createdAt

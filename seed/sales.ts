@@ -13,6 +13,7 @@ import type {
 	Service,
 	Sex
 } from '../src/lib/server/db/schema';
+import { lineTotalCents } from '../src/lib/money/pricing';
 import { DEMO_ACCOUNTS, DEMO_SHIP_ADDRESSES, type DemoClimate } from './accounts';
 import {
 	addDays,
@@ -196,14 +197,8 @@ export interface DemoSales {
 	waitlist: DemoWaitlistEntry[];
 }
 
-/** A tier is a total price for a quantity; larger orders pay the rate of the largest tier they reach. */
-export function lineTotalCents(tiers: readonly DemoPriceTier[], quantity: number): number {
-	const tier = [...tiers]
-		.filter((t) => t.minQuantity <= quantity)
-		.sort((a, b) => b.minQuantity - a.minQuantity)[0];
-	if (!tier) throw new Error(`no price tier covers a quantity of ${quantity}`);
-	return Math.round((quantity * tier.priceCents) / tier.minQuantity);
-}
+// Lines are priced by the shop's own rule, so demo orders add up as real ones do.
+export { lineTotalCents };
 
 function fToC(f: number): string {
 	return ((f - 32) * (5 / 9)).toFixed(1);

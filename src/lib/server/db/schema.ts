@@ -169,6 +169,8 @@ export interface SpeciesTable {
 	refresh_interval_days: Generated<number>;
 	tub_hold_days: Generated<number>;
 	molt_quiet_days: Generated<number>;
+	/** Maintained by PostgreSQL from the names and summary, for the catalogue search. */
+	search: GeneratedAlways<string>;
 	created_at: CreatedAt;
 	updated_at: UpdatedAt;
 }
@@ -290,6 +292,8 @@ export interface ListingTable {
 	published_at: Timestamp | null;
 	/** Maintained by PostgreSQL from title and description. */
 	search: GeneratedAlways<string>;
+	/** The cheapest tier's price per animal, kept by the listing writes for the catalogue's sort and filter. */
+	base_price_cents: number | null;
 	created_at: CreatedAt;
 	updated_at: UpdatedAt;
 }
@@ -493,6 +497,9 @@ export interface WaitlistEntryTable {
 	email: string;
 	confirmed_at: Timestamp | null;
 	notified_at: Timestamp | null;
+	/** sha-256 of a guest's confirmation link token; null once confirmed or for accounts. */
+	confirm_token_hash: string | null;
+	notified_listing_id: number | null;
 	created_at: CreatedAt;
 }
 export interface AuditLogTable {
