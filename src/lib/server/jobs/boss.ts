@@ -12,9 +12,16 @@ export const MAIL_SEND_QUEUE = 'mail-send';
 export const MAIL_SWEEP_QUEUE = 'mail-sweep';
 /** Once a day: every open order's ship check again, for the shop-local date. */
 export const SHIP_RECHECK_QUEUE = 'ship-recheck';
+/** One job per listing gone live: mail its species' waitlist, once per entry. */
+export const WAITLIST_NOTIFY_QUEUE = 'waitlist-notify';
 
 export interface MailSendJob {
 	outgoingMailId: number;
+}
+
+export interface WaitlistNotifyJob {
+	listingId: number;
+	speciesId: number;
 }
 
 let running: PgBoss | undefined;

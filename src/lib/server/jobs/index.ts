@@ -25,6 +25,7 @@ import {
 	MAIL_SEND_QUEUE,
 	MAIL_SWEEP_QUEUE,
 	SHIP_RECHECK_QUEUE,
+	WAITLIST_NOTIFY_QUEUE,
 	setRunningBoss,
 	type MailSendJob
 } from './boss';
@@ -159,6 +160,14 @@ async function createQueues(
 		expireInSeconds: 1800
 	};
 	await boss.createQueue(SHIP_RECHECK_QUEUE, recheckQueue);
+	const waitlistQueue: PgBoss.Queue = {
+		name: WAITLIST_NOTIFY_QUEUE,
+		// A run that failed as a whole tries again; entries already marked are never mailed twice.
+		retryLimit: 3,
+		retryDelay: 60,
+		expireInSeconds: 600
+	};
+	await boss.createQueue(WAITLIST_NOTIFY_QUEUE, waitlistQueue);
 }
 
 async function scheduleShipRecheck(
