@@ -10,6 +10,7 @@ import type { LimitRule } from '$lib/server/auth/limits';
 import { lookUpZip } from '$lib/server/accounts/zip';
 import type { Database, Service } from '$lib/server/db/schema';
 import type { ForecastSource } from '$lib/server/weather/source';
+import { shippingAreaProblem } from '$lib/shipping/area';
 import { shipEstimateOf, type ShipEstimate } from '$lib/shipping/estimate';
 import { shipCheck } from '$lib/shipping/ship-check';
 import { buildShipCheckInput } from './inputs';
@@ -66,7 +67,10 @@ export function estimateQueryProblem(
 ): { zip: string; service: Service } | { message: string } {
 	const cleanZip = (zip ?? '').trim();
 	if (!/^\d{5}$/.test(cleanZip)) return { message: 'Enter a five-digit US ZIP code.' };
-	if (!lookUpZip(cleanZip)) return { message: `ZIP code ${cleanZip} does not exist.` };
+	const place = lookUpZip(cleanZip);
+	if (!place) return { message: `ZIP code ${cleanZip} does not exist.` };
+	const outside = shippingAreaProblem(cleanZip, place.state);
+	if (outside) return { message: outside };
 	const chosen = SERVICES.find((known) => known === (service ?? '').trim());
 	if (!chosen) return { message: 'Choose overnight or two-day service.' };
 	return { zip: cleanZip, service: chosen };
