@@ -34,7 +34,9 @@ const kindLabels: Record<MailKind, string> = {
 	account_exists: 'Account already exists',
 	password_changed: 'Password changed',
 	ship_date_set: 'Ship date set',
-	ship_date_lost: 'Ship date withdrawn'
+	ship_date_lost: 'Ship date withdrawn',
+	waitlist_confirm: 'Waitlist confirmation',
+	waitlist_ready: 'Waitlist: species ready'
 };
 
 export function mailKindLabel(kind: string): string {

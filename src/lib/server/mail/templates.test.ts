@@ -40,6 +40,26 @@ const oneOfEach: MailMessage[] = [
 		reasons: [
 			'Low of 14 °F (−10 °C) at the destination on Wed, Dec 2, 2026 is below the 25 °F (−4 °C) hold limit.'
 		]
+	},
+	{
+		kind: 'waitlist_confirm',
+		to: 'ada@example.com',
+		commonName: 'Desert millipede',
+		scientificName: 'Orthoporus ornatus',
+		url: link,
+		leaveUrl: 'https://shop.example.com/waitlist/leave/7.abc',
+		expiresInMinutes: 7 * 24 * 60
+	},
+	{
+		kind: 'waitlist_ready',
+		to: 'ada@example.com',
+		name: 'Ada',
+		commonName: 'Desert millipede',
+		scientificName: 'Orthoporus ornatus',
+		listingTitle: 'Desert millipedes, sub-adult, unsexed',
+		priceFromCents: 2450,
+		listingUrl: 'https://shop.example.com/listings/orthoporus-ornatus-sub-adult',
+		leaveUrl: 'https://shop.example.com/waitlist/leave/7.abc'
 	}
 ];
 
@@ -225,6 +245,49 @@ describe('ship date mail', () => {
 		);
 		expect(mail.html).toContain('&lt;b&gt;x&lt;/b&gt;');
 		expect(mail.html).not.toContain('<b>x</b>');
+	});
+});
+
+describe('waitlist mail', () => {
+	it('asks a guest to confirm, says how long the link works, and offers a way off', () => {
+		const mail = renderMail(oneOfEach[7]!, shop);
+		expect(mail.subject).toBe(
+			'Confirm your place on the Mossback Hollow Inverts waitlist for Desert millipede'
+		);
+		expect(mail.text).toContain('Desert millipede (Orthoporus ornatus)');
+		expect(mail.text).toContain('expires in 7 days');
+		expect(mail.text).toContain(
+			'take it off this waitlist now: https://shop.example.com/waitlist/leave/7.abc'
+		);
+		expect(mail.html).toContain('href="https://shop.example.com/waitlist/leave/7.abc"');
+	});
+
+	it('tells a waiting keeper the listing, its price from, the link, the notes and the way off', () => {
+		const mail = renderMail(oneOfEach[8]!, shop);
+		expect(mail.subject).toBe('Ready now at Mossback Hollow Inverts: Desert millipede');
+		expect(mail.text.startsWith('Hello Ada,\n')).toBe(true);
+		// 2450 cents is $24.50: 100 cents to the dollar (ISO 4217 gives USD two minor digits).
+		expect(mail.text).toContain('Desert millipedes, sub-adult, unsexed, from $24.50 an animal.');
+		expect(mail.text).toContain(
+			'See the listing:\nhttps://shop.example.com/listings/orthoporus-ornatus-sub-adult'
+		);
+		expect(mail.text).toContain('Weather and the live-arrival guarantee.');
+		expect(mail.text).toContain("Your state's rules.");
+		expect(mail.text).not.toContain('Heat packs in a sealed box');
+		expect(mail.text).toContain(
+			'Leave this waitlist: https://shop.example.com/waitlist/leave/7.abc'
+		);
+		expect(mail.html).toContain('USDA APHIS');
+	});
+
+	it('escapes a listing title with markup and refuses a leave link that is not a web address', () => {
+		const ready = oneOfEach[8] as Extract<MailMessage, { kind: 'waitlist_ready' }>;
+		const mail = renderMail({ ...ready, listingTitle: '<img src=x onerror=alert(1)>' }, shop);
+		expect(mail.html).toContain('&lt;img src=x onerror=alert(1)&gt;');
+		expect(mail.html).not.toContain('<img');
+		expect(() => renderMail({ ...ready, leaveUrl: 'javascript:alert(1)' }, shop)).toThrow(
+			RangeError
+		);
 	});
 });
 

@@ -6,6 +6,7 @@
 //
 // Relative imports: scripts load this module through the job runner, outside SvelteKit.
 import { formatShopDate } from '../../format/dates';
+import { formatCents } from '../../format/money';
 import { shippingCautions } from '../../shipping/cautions';
 
 /** Every e-mail the shop sends, as the data it is rendered from. */
@@ -54,6 +55,29 @@ export type MailMessage =
 			previousShipDate: string;
 			heldBy: 'forecast' | 'keeper';
 			reasons: string[];
+	  }
+	/** A guest asked to join a species' waitlist; `url` confirms it, `leaveUrl` takes the entry off. */
+	| {
+			kind: 'waitlist_confirm';
+			to: string;
+			commonName: string;
+			scientificName: string;
+			url: string;
+			leaveUrl: string;
+			expiresInMinutes: number;
+	  }
+	/** A listing of a waitlisted species went live; sent once per entry. */
+	| {
+			kind: 'waitlist_ready';
+			to: string;
+			name: string | null;
+			commonName: string;
+			scientificName: string;
+			listingTitle: string;
+			/** The listing's lowest price for one animal, in cents. */
+			priceFromCents: number;
+			listingUrl: string;
+			leaveUrl: string;
 	  };
 
 export type MailKind = MailMessage['kind'];
@@ -65,7 +89,9 @@ export const MAIL_KINDS = [
 	'account_exists',
 	'password_changed',
 	'ship_date_set',
-	'ship_date_lost'
+	'ship_date_lost',
+	'waitlist_confirm',
+	'waitlist_ready'
 ] as const satisfies readonly MailKind[];
 
 export interface RenderedMail {
@@ -135,8 +161,11 @@ export function formatLifetime(minutes: number): string {
 	return plural(minutes, 'minute');
 }
 
-/** A paragraph of the body; `strong` parts are bold in HTML and plain in text. */
-type Paragraph = (string | { strong: string })[];
+/**
+ * A paragraph of the body; `strong` parts are bold in HTML and plain in text; a `link`
+ * part is an anchor in HTML and its words followed by the address in text.
+ */
+type Paragraph = (string | { strong: string } | { link: string; url: string })[];
 
 interface Letter {
 	subject: string;
@@ -152,16 +181,23 @@ interface Letter {
 
 function paragraphHtml(paragraph: Paragraph): string {
 	return paragraph
-		.map((part) =>
-			typeof part === 'string'
-				? escapeHtml(part)
-				: `<strong style="font-weight:700;color:${look.ink};">${escapeHtml(part.strong)}</strong>`
-		)
+		.map((part) => {
+			if (typeof part === 'string') return escapeHtml(part);
+			if ('link' in part)
+				return `<a href="${escapeHtml(checkedLink(part.url))}" style="color:${look.moss};">${escapeHtml(part.link)}</a>`;
+			return `<strong style="font-weight:700;color:${look.ink};">${escapeHtml(part.strong)}</strong>`;
+		})
 		.join('');
 }
 
 function paragraphText(paragraph: Paragraph): string {
-	return paragraph.map((part) => (typeof part === 'string' ? part : part.strong)).join('');
+	return paragraph
+		.map((part) => {
+			if (typeof part === 'string') return part;
+			if ('link' in part) return `${part.link}: ${checkedLink(part.url)}`;
+			return part.strong;
+		})
+		.join('');
 }
 
 function renderLetter(letter: Letter, shopName: string): RenderedMail {
@@ -235,6 +271,20 @@ export const LOST_DATE_REASONS_SHOWN = 4;
 
 function cautionParagraphs(): Paragraph[] {
 	return shippingCautions.map((caution) => [{ strong: `${caution.title}.` }, ` ${caution.text}`]);
+}
+
+/** The notes that go with any live animal the shop offers: the guarantee and the buyer's state rules. */
+function arrivalAndStateParagraphs(): Paragraph[] {
+	return shippingCautions
+		.filter((caution) => /live-arrival|rules/i.test(caution.title))
+		.map((caution) => [{ strong: `${caution.title}.` }, ` ${caution.text}`]);
+}
+
+/** "Desert millipede (Orthoporus ornatus)", or the scientific name alone when that is all there is. */
+function speciesWords(commonName: string, scientificName: string): string {
+	const common = oneLine(commonName);
+	const scientific = oneLine(scientificName);
+	return common ? `${common} (${scientific})` : scientific;
 }
 
 function hello(name: string | null): string {
@@ -459,6 +509,76 @@ export function renderMail(message: MailMessage, shop: MailShop): RenderedMail {
 						['Questions? Reply to this message.']
 					],
 					footnote: `${sentTo} You get it because the ship date of your order was withdrawn.`
+				},
+				shopName
+			);
+		}
+		case 'waitlist_confirm': {
+			const species = speciesWords(message.commonName, message.scientificName);
+			const lifetime = formatLifetime(message.expiresInMinutes);
+			return renderLetter(
+				{
+					subject: `Confirm your place on the ${shopName} waitlist for ${oneLine(message.commonName) || oneLine(message.scientificName)}`,
+					preview: `One click, and ${shopName} tells you when it has ${species} ready.`,
+					greeting: hello(null),
+					before: [
+						[
+							`Someone asked ${shopName} to say when it has `,
+							{ strong: species },
+							' ready, and gave this address. If that was you, confirm it with the button.'
+						]
+					],
+					button: { label: 'Confirm my place on the waitlist', url: checkedLink(message.url) },
+					after: [
+						[
+							'The button opens a page where you confirm with one more click. The link works once and expires in ',
+							{ strong: lifetime },
+							'.'
+						],
+						[
+							'Once you are on the list you get one e-mail, in the order people joined, when a listing of this species goes live. Nothing else is sent.'
+						],
+						[
+							'If it was not you, ignore this message: the address is not added without a click. Or ',
+							{ link: 'take it off this waitlist now', url: message.leaveUrl },
+							'.'
+						]
+					],
+					footnote: `${sentTo} You get it because this address was given on the shop's waitlist page.`
+				},
+				shopName
+			);
+		}
+		case 'waitlist_ready': {
+			const species = speciesWords(message.commonName, message.scientificName);
+			const title = oneLine(message.listingTitle);
+			const price = formatCents(message.priceFromCents);
+			return renderLetter(
+				{
+					subject: `Ready now at ${shopName}: ${oneLine(message.commonName) || oneLine(message.scientificName)}`,
+					preview: `${title}, from ${price} an animal. You asked to hear first.`,
+					greeting: hello(message.name),
+					before: [
+						[
+							'You asked to hear when we had ',
+							{ strong: species },
+							' ready. A listing is live now:'
+						],
+						[{ strong: title }, `, from ${price} an animal.`],
+						[
+							'Stock is limited and sells in the order carts reach checkout; this e-mail does not hold any for you.'
+						]
+					],
+					button: { label: 'See the listing', url: checkedLink(message.listingUrl) },
+					after: [
+						...arrivalAndStateParagraphs(),
+						[
+							'This is the only e-mail this waitlist sends you; to hear about a later clutch, join again from the species page. ',
+							{ link: 'Leave this waitlist', url: message.leaveUrl },
+							'.'
+						]
+					],
+					footnote: `${sentTo} You get it because this address joined the waitlist for ${species}.`
 				},
 				shopName
 			);
