@@ -11,7 +11,10 @@ export default defineConfig({
 		projects: [
 			{
 				extends: true,
-				test: { name: 'unit', include: ['src/**/*.test.ts', 'seed/**/*.test.ts'] }
+				test: {
+					name: 'unit',
+					include: ['src/**/*.test.ts', 'seed/**/*.test.ts', 'scripts/**/*.test.ts']
+				}
 			},
 			{
 				extends: true,

@@ -1,0 +1,617 @@
+// npm run bench: the catalogue's speed against the production build, measured side by side
+// in one run on a seeded database of more than 12,000 live listings. Prints three ratios:
+// catalogue page 1 requests/s ÷ a static file's requests/s from the same server, p95 of
+// page 500 ÷ p95 of page 1, and the gzipped JavaScript the catalogue page loads.
+// A script, never a test: the figures depend on the machine, the ratios much less.
+// Traffic goes only to 127.0.0.1; every request loop stops by itself at a count and a time.
+import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
+import {
+	closeSync,
+	createWriteStream,
+	existsSync,
+	openSync,
+	readFileSync,
+	readdirSync,
+	statSync
+} from 'node:fs';
+import { createServer } from 'node:net';
+import path from 'node:path';
+import { performance } from 'node:perf_hooks';
+import { fileURLToPath } from 'node:url';
+import { gzipSync } from 'node:zlib';
+import autocannon from 'autocannon';
+import { sql } from 'kysely';
+import { planBenchCatalogue, type BenchListing, type BenchSpecies } from '../seed/bench-catalogue';
+import { dateInTimeZone } from '../seed/dates';
+import { seedDemo } from '../seed/demo';
+import { DEMO_SHOP } from '../seed/sales';
+import { createDb, type Db } from '../src/lib/server/db/connect';
+import { assertMigrated, migratorFor } from '../src/lib/server/db/migrator';
+import { installJobSchema } from '../src/lib/server/jobs';
+import { speciesPrefix } from '../src/lib/server/stock/codes';
+import {
+	nextPageUrl,
+	pageScriptUrls,
+	percentile,
+	staticImportUrls,
+	textTable
+} from './bench/measure';
+
+const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
+const BENCH_DATABASE = 'hatchlot_bench';
+const HOST = '127.0.0.1';
+const PORT = 3299;
+const BASE = `http://${HOST}:${PORT}`;
+const CATALOGUE_PATH = '/catalogue';
+/** 24 listings a page: page 500 needs at least 11,977 of them in the default view. */
+const PAGE_SIZE = 24;
+const FAR_PAGE = 500;
+const ANIMAL_LISTINGS = 12_200;
+const SUPPLY_LISTINGS = 300;
+// The lead's builds hold the same lock, so two builds never write build/ at once.
+const BUILD_LOCK = '/tmp/hatchlot-build.lock';
+// The server runs from a private copy, so a rebuild of build/ during the run cannot pull
+// files from under it.
+const SERVER_DIR = path.join(ROOT, '.data', 'bench-build');
+const SERVER_LOG = path.join(ROOT, '.data', 'bench-server.log');
+const BUILD_LOG = path.join(ROOT, '.data', 'bench-build.log');
+
+/** Throughput: the same settings for the page and the static file. */
+const CANNON = { connections: 10, warmupSeconds: 2, seconds: 8, maxRequests: 1_000_000 };
+/** Latency: sequential requests of page 1 and page 500, taken in turn. */
+const LATENCY = { warmup: 20, samples: 200, maxSeconds: 180 };
+const WALK_MAX_SECONDS = 300;
+const REQUEST_TIMEOUT_MS = 15_000;
+
+const startedAt = performance.now();
+const say = (message: string) => console.log(`\x1b[1;32m[bench]\x1b[0m ${message}`);
+const seconds = (since: number) => `${((performance.now() - since) / 1000).toFixed(1)} s`;
+const int = (n: number) => n.toLocaleString('en-US');
+
+class BenchError extends Error {}
+
+// ---------------------------------------------------------------- database
+
+function databaseUrls(): { admin: string; bench: string } {
+	const given = process.env.DATABASE_URL;
+	if (!given) throw new BenchError('DATABASE_URL is not set; run through `npm run bench`.');
+	const url = new URL(given);
+	// The bench drops and creates a database: only ever on this machine's own cluster.
+	if (!['127.0.0.1', 'localhost', '[::1]'].includes(url.hostname))
+		throw new BenchError(
+			`DATABASE_URL points at ${url.hostname}; the bench runs only on 127.0.0.1.`
+		);
+	url.pathname = '/postgres';
+	const admin = url.href;
+	url.pathname = `/${BENCH_DATABASE}`;
+	return { admin, bench: url.href };
+}
+
+async function freshDatabase(adminUrl: string, benchUrl: string): Promise<void> {
+	const admin = createDb(adminUrl, 1);
+	try {
+		await sql`drop database if exists ${sql.id(BENCH_DATABASE)} with (force)`.execute(admin);
+		await sql`create database ${sql.id(BENCH_DATABASE)}`.execute(admin);
+	} finally {
+		await admin.destroy();
+	}
+	const db = createDb(benchUrl, 2);
+	try {
+		assertMigrated(await migratorFor(db).migrateToLatest());
+	} finally {
+		await db.destroy();
+	}
+	await installJobSchema(benchUrl);
+}
+
+async function benchSpecies(db: Db): Promise<BenchSpecies[]> {
+	const rows = await db
+		.selectFrom('species')
+		.select(['id', 'slug', 'scientific_name', 'common_name', 'animal_group', 'grow_out_weeks'])
+		.orderBy('id')
+		.execute();
+	const tubs = await db
+		.selectFrom('resting_tub')
+		.innerJoin('colony', 'colony.id', 'resting_tub.colony_id')
+		.select(['resting_tub.id', 'colony.species_id'])
+		.orderBy('resting_tub.id')
+		.execute();
+	const species: BenchSpecies[] = [];
+	for (const row of rows) {
+		const prefix = await speciesPrefix(db, row.id);
+		const top = await db
+			.selectFrom('clutch')
+			.select(
+				sql<number>`coalesce(max(substring(code from ${prefix.length + 3}::int)::int), 0)`.as('top')
+			)
+			.where('code', '~', `^${prefix}-C[0-9]+$`)
+			.executeTakeFirstOrThrow();
+		species.push({
+			id: row.id,
+			slug: row.slug,
+			scientificName: row.scientific_name,
+			commonName: row.common_name,
+			group: row.animal_group,
+			growOutWeeks: row.grow_out_weeks,
+			codePrefix: prefix,
+			highestClutchNumber: Number(top.top),
+			tubIds: tubs.filter((t) => t.species_id === row.id).map((t) => t.id)
+		});
+	}
+	return species;
+}
+
+function chunks<T>(rows: readonly T[], size: number): T[][] {
+	const out: T[][] = [];
+	for (let i = 0; i < rows.length; i += size) out.push(rows.slice(i, i + size));
+	return out;
+}
+
+function listingRow(listing: BenchListing, clutchId: number | null) {
+	return {
+		slug: listing.slug,
+		kind: listing.kind,
+		species_id: listing.speciesId,
+		clutch_id: clutchId,
+		title: listing.title,
+		description: listing.description,
+		unit_size: listing.unitSize,
+		sex: listing.sex,
+		is_live: listing.isLive,
+		state: 'live' as const,
+		supply_stock: listing.supplyStock,
+		published_at: listing.publishedAt,
+		base_price_cents: listing.basePriceCents,
+		created_at: listing.publishedAt,
+		updated_at: listing.publishedAt
+	};
+}
+
+/**
+ * The demo shop plus thousands of listed clutches and their listings, in a few bulk
+ * inserts. A benchmark fixture: it writes rows directly, with no audit or clutch history.
+ */
+async function fillCatalogue(benchUrl: string, today: string): Promise<number> {
+	const db = createDb(benchUrl, 2);
+	try {
+		await seedDemo(db, { today });
+		const plan = planBenchCatalogue(await benchSpecies(db), {
+			today,
+			animalListings: ANIMAL_LISTINGS,
+			supplies: SUPPLY_LISTINGS
+		});
+		await db.transaction().execute(async (trx) => {
+			const clutchIdByCode = new Map<string, number>();
+			// Batches stay under PostgreSQL's 65,535 parameters per statement.
+			for (const batch of chunks(plan.clutches, 2000)) {
+				const inserted = await trx
+					.insertInto('clutch')
+					.values(
+						batch.map((c) => ({
+							code: c.code,
+							species_id: c.speciesId,
+							tub_id: c.tubId,
+							origin: c.tubId === null ? ('bought_in' as const) : ('tub' as const),
+							generation: c.generation,
+							found_on: c.foundOn,
+							stage: c.stage,
+							size_class: c.sizeClass,
+							count_found: c.countFound,
+							count_alive: c.countAlive,
+							count_lost: c.countLost,
+							state: 'listed' as const,
+							sale_ready_on: c.saleReadyOn,
+							created_at: new Date(`${c.foundOn}T15:00:00Z`),
+							updated_at: c.listedAt
+						}))
+					)
+					.returning(['id', 'code'])
+					.execute();
+				for (const row of inserted) clutchIdByCode.set(row.code, row.id);
+			}
+			const listings = [
+				...plan.clutches.flatMap((c) =>
+					c.listings.map((l) => ({ listing: l, clutchId: clutchIdByCode.get(c.code) ?? null }))
+				),
+				...plan.supplies.map((l) => ({ listing: l, clutchId: null }))
+			];
+			const tiers: { listing_id: number; min_quantity: number; price_cents: number }[] = [];
+			for (const batch of chunks(listings, 3000)) {
+				const inserted = await trx
+					.insertInto('listing')
+					.values(batch.map(({ listing, clutchId }) => listingRow(listing, clutchId)))
+					.returning(['id'])
+					.execute();
+				// PostgreSQL returns inserted rows in the order of the VALUES list.
+				inserted.forEach((row, index) => {
+					for (const tier of batch[index]?.listing.tiers ?? [])
+						tiers.push({
+							listing_id: row.id,
+							min_quantity: tier.minQuantity,
+							price_cents: tier.priceCents
+						});
+				});
+			}
+			for (const batch of chunks(tiers, 10_000))
+				await trx.insertInto('price_tier').values(batch).execute();
+		});
+		// Fresh planner statistics, as a shop that has been running would have.
+		await sql`analyze clutch, listing, price_tier, species`.execute(db);
+		const { live } = await db
+			.selectFrom('listing')
+			.leftJoin('clutch', 'clutch.id', 'listing.clutch_id')
+			.select((eb) => eb.fn.countAll<number>().as('live'))
+			.where('listing.state', '=', 'live')
+			.where((eb) => eb.or([eb('listing.kind', '=', 'supply'), eb('clutch.state', '=', 'listed')]))
+			.executeTakeFirstOrThrow();
+		return Number(live);
+	} finally {
+		await db.destroy();
+	}
+}
+
+// ---------------------------------------------------------------- build and server
+
+function newestMtime(dir: string): number {
+	let newest = 0;
+	for (const entry of readdirSync(dir, { withFileTypes: true })) {
+		const full = path.join(dir, entry.name);
+		newest = Math.max(newest, entry.isDirectory() ? newestMtime(full) : statSync(full).mtimeMs);
+	}
+	return newest;
+}
+
+/** Runs a command to its end; its output goes to `log` (its tail shown on failure) or the terminal. */
+function run(command: string, args: string[], log?: string): void {
+	const fd = log ? openSync(log, 'w') : null;
+	try {
+		const result = spawnSync(command, args, {
+			cwd: ROOT,
+			stdio: fd === null ? 'inherit' : ['ignore', fd, fd]
+		});
+		if (result.status === 0) return;
+		if (log) console.error(readFileSync(log, 'utf8').split('\n').slice(-40).join('\n'));
+		throw new BenchError(
+			`${command} ${args.join(' ')} failed (exit ${result.status ?? result.signal})` +
+				(log ? `; its output is in ${path.relative(ROOT, log)}` : '')
+		);
+	} finally {
+		if (fd !== null) closeSync(fd);
+	}
+}
+
+/** Rebuild when build/ is missing or older than src/, then copy it aside under the lock. */
+function prepareBuild(): void {
+	const handler = path.join(ROOT, 'build', 'handler.js');
+	const built = existsSync(handler) ? statSync(handler).mtimeMs : 0;
+	if (built < newestMtime(path.join(ROOT, 'src'))) {
+		const since = performance.now();
+		say(built ? 'build/ is older than src/: building…' : 'no build/ yet: building…');
+		run('flock', [BUILD_LOCK, 'npx', 'vite', 'build', '--logLevel', 'warn'], BUILD_LOG);
+		say(`built in ${seconds(since)} (output: ${path.relative(ROOT, BUILD_LOG)})`);
+	} else {
+		say('build/ is newer than src/: using it');
+	}
+	run('flock', [
+		BUILD_LOCK,
+		'sh',
+		'-c',
+		'rm -rf "$1" && mkdir -p "$(dirname "$1")" && cp -a build "$1"',
+		'copy-build',
+		SERVER_DIR
+	]);
+}
+
+function freePort(): Promise<number> {
+	return new Promise((resolve, reject) => {
+		const probe = createServer();
+		probe.once('error', reject);
+		probe.listen(0, HOST, () => {
+			const address = probe.address();
+			const port = typeof address === 'object' && address ? address.port : 0;
+			probe.close(() => resolve(port));
+		});
+	});
+}
+
+async function portTaken(port: number): Promise<boolean> {
+	return new Promise((resolve) => {
+		const probe = createServer();
+		probe.once('error', () => resolve(true));
+		probe.listen(port, HOST, () => probe.close(() => resolve(false)));
+	});
+}
+
+let server: ChildProcess | null = null;
+
+async function startServer(benchUrl: string): Promise<void> {
+	if (await portTaken(PORT))
+		throw new BenchError(`port ${PORT} on ${HOST} is taken; is another bench running?`);
+	// The measured pages need neither mail nor forecasts: both point at ports nobody serves.
+	const [smtpPort, weatherPort] = [await freePort(), await freePort()];
+	const env: NodeJS.ProcessEnv = {
+		...process.env,
+		NODE_ENV: 'production',
+		HOST,
+		PORT: String(PORT),
+		ORIGIN: BASE,
+		DATABASE_URL: benchUrl,
+		AUTH_SECRET: 'bench-only-secret-never-used-for-real-accounts-0000',
+		SHOP_TIME_ZONE: process.env.SHOP_TIME_ZONE ?? DEMO_SHOP.timeZone,
+		SMTP_URL: `smtp://${HOST}:${smtpPort}`,
+		WEATHER_API_URL: `http://${HOST}:${weatherPort}`
+	};
+	delete env.MAIL_CATCHER_URL;
+	const log = createWriteStream(SERVER_LOG);
+	const child = spawn(process.execPath, [SERVER_DIR], {
+		cwd: ROOT,
+		env,
+		stdio: ['ignore', 'pipe', 'pipe']
+	});
+	server = child;
+	child.stdout?.pipe(log);
+	child.stderr?.pipe(log);
+	const deadline = performance.now() + 30_000;
+	while (performance.now() < deadline) {
+		if (child.exitCode !== null || child.signalCode !== null)
+			throw new BenchError(`the server exited during start-up; see ${SERVER_LOG}`);
+		try {
+			const res = await fetch(`${BASE}/api/health`, { signal: AbortSignal.timeout(2000) });
+			const body = (await res.json()) as { status?: string };
+			if (res.ok && body.status === 'ok') return;
+		} catch {
+			// Not listening yet.
+		}
+		await new Promise((resolve) => setTimeout(resolve, 250));
+	}
+	throw new BenchError(`the server did not answer /api/health within 30 s; see ${SERVER_LOG}`);
+}
+
+async function stopServer(): Promise<void> {
+	const child = server;
+	server = null;
+	if (!child || child.exitCode !== null || child.signalCode !== null) return;
+	const exited = new Promise<void>((resolve) => child.once('exit', () => resolve()));
+	child.kill('SIGTERM');
+	const timer = setTimeout(() => child.kill('SIGKILL'), 10_000);
+	await exited;
+	clearTimeout(timer);
+}
+
+// A last resort if the process ends some other way: the server never outlives the bench.
+process.on('exit', () => {
+	if (server && server.exitCode === null) server.kill('SIGKILL');
+});
+for (const signal of ['SIGINT', 'SIGTERM'] as const) {
+	process.once(signal, () => {
+		console.error(`\n[bench] ${signal}: stopping the server…`);
+		void stopServer().finally(() => process.exit(130));
+	});
+}
+
+// ---------------------------------------------------------------- measuring
+
+async function get(url: string): Promise<{ status: number; body: Buffer; link: string | null }> {
+	const res = await fetch(url, { signal: AbortSignal.timeout(REQUEST_TIMEOUT_MS) });
+	return {
+		status: res.status,
+		body: Buffer.from(await res.arrayBuffer()),
+		link: res.headers.get('link')
+	};
+}
+
+async function getOk(url: string): Promise<{ body: Buffer; link: string | null }> {
+	const res = await get(url);
+	if (res.status === 404 && new URL(url).pathname === CATALOGUE_PATH)
+		throw new BenchError(
+			`${CATALOGUE_PATH} answers 404: the catalogue route is not in this build.`
+		);
+	if (res.status !== 200) throw new BenchError(`GET ${url} answered ${res.status}`);
+	return res;
+}
+
+interface ScriptFile {
+	url: string;
+	rawBytes: number;
+	gzipBytes: number;
+	namedByPage: boolean;
+}
+
+/** Each script the page names, and what they import statically, fetched once and gzipped. */
+async function pageJavaScript(html: string, link: string | null, pageUrl: string) {
+	const named = pageScriptUrls(html, link, pageUrl);
+	const queue = [...named];
+	const seen = new Set(queue);
+	const files: ScriptFile[] = [];
+	while (queue.length > 0 && files.length < 500) {
+		const url = queue.shift() as string;
+		const { body } = await getOk(url);
+		files.push({
+			url,
+			rawBytes: body.length,
+			gzipBytes: gzipSync(body).length,
+			namedByPage: named.includes(url)
+		});
+		for (const imported of staticImportUrls(body.toString('utf8'), url)) {
+			if (!seen.has(imported) && new URL(imported).pathname.startsWith('/_app/')) {
+				seen.add(imported);
+				queue.push(imported);
+			}
+		}
+	}
+	return files;
+}
+
+async function cannon(url: string, duration: number): Promise<autocannon.Result> {
+	const result = await autocannon({
+		url,
+		connections: CANNON.connections,
+		duration,
+		maxOverallRequests: CANNON.maxRequests,
+		timeout: REQUEST_TIMEOUT_MS / 1000
+	});
+	if (result.errors > 0 || result.non2xx > 0)
+		throw new BenchError(
+			`GET ${url}: ${result.errors} errors and ${result.non2xx} non-2xx answers under load; see ${SERVER_LOG}`
+		);
+	return result;
+}
+
+/** Follows rel="next" from page 1 until page `target`, and returns that page's URL. */
+async function walkTo(firstUrl: string, target: number): Promise<{ url: string; ms: number[] }> {
+	let url = firstUrl;
+	const ms: number[] = [];
+	const deadline = performance.now() + WALK_MAX_SECONDS * 1000;
+	for (let page = 1; page < target; page++) {
+		if (performance.now() > deadline)
+			throw new BenchError(`walking to page ${target} took over ${WALK_MAX_SECONDS} s`);
+		const t0 = performance.now();
+		const { body } = await getOk(url);
+		ms.push(performance.now() - t0);
+		const next = nextPageUrl(body.toString('utf8'), url);
+		if (!next)
+			throw new BenchError(
+				`the catalogue ends at page ${page}; page ${target} needs more listings`
+			);
+		url = next;
+		if (page % 100 === 0) say(`  … page ${page + 1}`);
+	}
+	return { url, ms };
+}
+
+/** Sequential timings of each URL in turn, so both see the same moments of the machine. */
+async function latencies(urls: readonly string[]): Promise<number[][]> {
+	const times = urls.map((): number[] => []);
+	const deadline = performance.now() + LATENCY.maxSeconds * 1000;
+	for (let round = 0; round < LATENCY.warmup + LATENCY.samples; round++) {
+		if (performance.now() > deadline)
+			throw new BenchError(`the latency rounds took over ${LATENCY.maxSeconds} s`);
+		for (const [index, url] of urls.entries()) {
+			const t0 = performance.now();
+			const res = await get(url);
+			const elapsed = performance.now() - t0;
+			if (res.status !== 200) throw new BenchError(`GET ${url} answered ${res.status}`);
+			if (round >= LATENCY.warmup) times[index]?.push(elapsed);
+		}
+	}
+	return times;
+}
+
+const ms = (value: number) => `${value.toFixed(1)} ms`;
+const bytes = (value: number) => `${int(value)} B`;
+
+async function main(): Promise<void> {
+	const { admin, bench } = databaseUrls();
+	const today = dateInTimeZone(new Date(), DEMO_SHOP.timeZone);
+
+	let since = performance.now();
+	say(`fresh database ${BENCH_DATABASE}: migrate, seed the demo, add the catalogue…`);
+	await freshDatabase(admin, bench);
+	const live = await fillCatalogue(bench, today);
+	say(
+		`${int(live)} live listings (${Math.ceil(live / PAGE_SIZE)} pages of ${PAGE_SIZE}) in ${seconds(since)}`
+	);
+	if (live < FAR_PAGE * PAGE_SIZE)
+		throw new BenchError(`${int(live)} live listings do not fill ${FAR_PAGE} pages`);
+
+	prepareBuild();
+	since = performance.now();
+	await startServer(bench);
+	say(
+		`production server on ${BASE} (log: ${path.relative(ROOT, SERVER_LOG)}), up in ${seconds(since)}`
+	);
+
+	const page1 = `${BASE}${CATALOGUE_PATH}`;
+	const first = await getOk(page1);
+	const html = first.body.toString('utf8');
+	const scripts = await pageJavaScript(html, first.link, page1);
+	if (scripts.length === 0)
+		throw new BenchError(`${CATALOGUE_PATH} loads no JavaScript under /_app/`);
+	// The smallest script the page loads: an immutable file sirv serves from disk.
+	const smallest = scripts.reduce((a, b) => (b.rawBytes < a.rawBytes ? b : a));
+	const staticUrl = smallest.url;
+	const staticPath = new URL(staticUrl).pathname;
+
+	say(
+		`throughput: ${CANNON.connections} connections, ${CANNON.warmupSeconds} s warm-up then ${CANNON.seconds} s each…`
+	);
+	await cannon(page1, CANNON.warmupSeconds);
+	await cannon(staticUrl, CANNON.warmupSeconds);
+	const pageLoad = await cannon(page1, CANNON.seconds);
+	const staticLoad = await cannon(staticUrl, CANNON.seconds);
+
+	say(`following rel="next" from page 1 to page ${FAR_PAGE}…`);
+	since = performance.now();
+	const far = await walkTo(page1, FAR_PAGE);
+	say(`reached page ${FAR_PAGE} in ${seconds(since)}`);
+
+	say(`latency: ${LATENCY.samples} sequential requests of page 1 and page ${FAR_PAGE} in turn…`);
+	const [nearTimes = [], farTimes = []] = await latencies([page1, far.url]);
+
+	const pageRps = pageLoad.requests.average;
+	const staticRps = staticLoad.requests.average;
+	const p95Near = percentile(nearTimes, 95);
+	const p95Far = percentile(farTimes, 95);
+	const gzipTotal = scripts.reduce((sum, f) => sum + f.gzipBytes, 0);
+	const rawTotal = scripts.reduce((sum, f) => sum + f.rawBytes, 0);
+	const extra = scripts.filter((f) => !f.namedByPage).length;
+
+	console.log('');
+	console.log(
+		`Hatchlot catalogue bench: production build on ${BASE}, database ${BENCH_DATABASE}, ` +
+			`${int(live)} live listings`
+	);
+	console.log('');
+	console.log(
+		textTable(
+			['measure', 'value', 'detail'],
+			[
+				[
+					`GET ${CATALOGUE_PATH} (page 1)`,
+					`${int(Math.round(pageRps))} req/s`,
+					`${CANNON.connections} conn, ${CANNON.seconds} s, ${int(pageLoad['2xx'])} answers, p50 ${ms(pageLoad.latency.p50)}`
+				],
+				[
+					`GET ${staticPath}`,
+					`${int(Math.round(staticRps))} req/s`,
+					`${bytes(smallest.rawBytes)} file, ${int(staticLoad['2xx'])} answers, p50 ${ms(staticLoad.latency.p50)}`
+				],
+				[
+					'page 1, sequential',
+					`p95 ${ms(p95Near)}`,
+					`p50 ${ms(percentile(nearTimes, 50))}, ${nearTimes.length} requests`
+				],
+				[
+					`page ${FAR_PAGE} (after ${FAR_PAGE - 1} rel=next hops), sequential`,
+					`p95 ${ms(p95Far)}`,
+					`p50 ${ms(percentile(farTimes, 50))}, ${farTimes.length} requests`
+				],
+				[
+					'JavaScript the catalogue loads',
+					`${bytes(gzipTotal)} gzip`,
+					`${scripts.length} files${extra ? ` (${extra} found by their imports)` : ''}, ${bytes(rawTotal)} raw`
+				]
+			]
+		)
+	);
+	console.log('');
+	console.log(`catalogue req/s ÷ static file req/s   ${(pageRps / staticRps).toFixed(3)}`);
+	console.log(`p95 page ${FAR_PAGE} ÷ p95 page 1            ${(p95Far / p95Near).toFixed(2)}`);
+	console.log(
+		`catalogue JavaScript, gzipped         ${bytes(gzipTotal)} (${(gzipTotal / 1024).toFixed(1)} KiB, ${scripts.length} files)`
+	);
+	console.log('');
+	say(`done in ${seconds(startedAt)}; ${BENCH_DATABASE} is kept for a look until the next run`);
+}
+
+try {
+	await main();
+} catch (error) {
+	const message = error instanceof Error ? error.message : String(error);
+	console.error(`\x1b[1;31m[bench]\x1b[0m ${message}`);
+	if (!(error instanceof BenchError) && error instanceof Error && error.stack)
+		console.error(error.stack);
+	process.exitCode = 1;
+} finally {
+	await stopServer();
+}
