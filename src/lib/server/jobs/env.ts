@@ -17,6 +17,15 @@ export function jobsOptionsFromEnv(): JobsOptions {
 			run: async (db, today) =>
 				describeRecheckCounts(await recheckOpenOrders(db, forecastSource(db), today)),
 			timeZoneFallback: env.SHOP_TIME_ZONE
-		}
+		},
+		// Links in waitlist mail: the same origin and secret the request side uses.
+		...(env.AUTH_SECRET && env.AUTH_SECRET.length >= 32
+			? {
+					waitlist: {
+						origin: (env.ORIGIN ?? 'http://127.0.0.1:3000').replace(/\/$/, ''),
+						secret: env.AUTH_SECRET
+					}
+				}
+			: {})
 	};
 }

@@ -27,8 +27,11 @@ import {
 	SHIP_RECHECK_QUEUE,
 	WAITLIST_NOTIFY_QUEUE,
 	setRunningBoss,
-	type MailSendJob
+	type MailSendJob,
+	type WaitlistNotifyJob
 } from './boss';
+import type { WaitlistLinks } from '../waitlist/links';
+import { notifyWaitlist } from '../waitlist/worker';
 
 export { getBoss, JOB_SCHEMA, MAIL_SEND_QUEUE, MAIL_SWEEP_QUEUE, SHIP_RECHECK_QUEUE } from './boss';
 
@@ -62,6 +65,8 @@ export interface JobsOptions {
 	/** Where the one-line reports go; console.warn unless given. */
 	log?: (line: string) => void;
 	shipRecheck?: ShipRecheckOptions;
+	/** Where waitlist mail links to, and the secret its leave links are signed with; no worker without it. */
+	waitlist?: WaitlistLinks;
 }
 
 export interface JobRunner {
@@ -247,6 +252,24 @@ async function startOnce(
 		});
 		await boss.schedule(MAIL_SWEEP_QUEUE, SWEEP_CRON);
 		if (options.shipRecheck) await scheduleShipRecheck(boss, db, options.shipRecheck, log);
+		const waitlistLinks = options.waitlist;
+		if (waitlistLinks) {
+			await boss.work<WaitlistNotifyJob>(
+				WAITLIST_NOTIFY_QUEUE,
+				{ batchSize: 1, pollingIntervalSeconds: options.pollingIntervalSeconds ?? 2 },
+				async (jobs) => {
+					for (const job of jobs) {
+						const outcome = await notifyWaitlist(db, job.data, waitlistLinks);
+						log(
+							`[waitlist] listing #${job.data.listingId}: ` +
+								('skipped' in outcome
+									? `nothing sent (${outcome.skipped})`
+									: `${outcome.mailed} mailed`)
+						);
+					}
+				}
+			);
+		}
 		return { boss, pool, db };
 	} catch (error) {
 		await boss.stop({ graceful: false, wait: true }).catch(() => undefined);
