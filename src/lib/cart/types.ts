@@ -34,7 +34,6 @@ export interface CartLineView {
 	tier: PriceTier | null;
 	lineTotalCents: number;
 	problem: LineProblem | null;
-	photo: { hash: string; alt: string } | null;
 }
 
 export interface CartView {
@@ -44,6 +43,8 @@ export interface CartView {
 	itemCount: number;
 	service: Service;
 	fees: Record<Service, number>;
+	/** Minutes a hold lasts once checkout starts (a shop setting). */
+	holdMinutes: number;
 	subtotalCents: number;
 	shippingCents: number;
 	totalCents: number;

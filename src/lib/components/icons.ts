@@ -163,6 +163,17 @@ export const icons = {
 		{ d: 'M12 6.5C10 5 7 4.5 4 5v13.5c3-.5 6 0 8 1.5 2-1.5 5-2 8-1.5V5c-3-.5-6 0-8 1.5zM12 6.5V20' }
 	],
 	plus: [{ d: 'M12 5v14M5 12h14' }],
+	minus: [{ d: 'M5 12h14' }],
+	// A woven gathering basket: what the buyer has picked so far.
+	basket: [
+		{ d: 'M3.5 9.5h17l-1.8 9a2 2 0 0 1-2 1.6H7.3a2 2 0 0 1-2-1.6z' },
+		{ d: 'M8 9.5 10.5 4M16 9.5 13.5 4' },
+		{ d: 'M9 13v4M12 13v4M15 13v4' }
+	],
+	trash: [
+		{ d: 'M4.5 7h15M9.5 7V4.5h5V7' },
+		{ d: 'M6.5 7l1 12.2a1.5 1.5 0 0 0 1.5 1.3h6a1.5 1.5 0 0 0 1.5-1.3l1-12.2' }
+	],
 	// ---- animal groups, for species tiles
 	millipede: [
 		// Side view: a long body of many rings, two legs to a ring, antennae at the head.

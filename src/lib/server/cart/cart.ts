@@ -179,8 +179,6 @@ interface LineRow {
 	common_name: string | null;
 	on_offer: number;
 	held_here: number;
-	photo_hash: string | null;
-	photo_alt: string | null;
 }
 
 async function readLines(db: Db, cartId: string): Promise<LineRow[]> {
@@ -211,14 +209,7 @@ async function readLines(db: Db, cartId: string): Promise<LineRow[]> {
 				.where('reservation.cart_id', '=', cartId)
 				.where('reservation.state', '=', 'held')
 				.where('reservation.expires_at', '>', sql<Date>`now()`)
-				.as('held_here'),
-			// The first photo of the listing, else of its clutch, else of its species.
-			sql<string | null>`(select p.content_hash from photo p
-				where p.listing_id = listing.id or p.clutch_id = listing.clutch_id or p.species_id = listing.species_id
-				order by (p.listing_id is null), (p.clutch_id is null), p.position, p.id limit 1)`.as('photo_hash'),
-			sql<string | null>`(select p.alt_text from photo p
-				where p.listing_id = listing.id or p.clutch_id = listing.clutch_id or p.species_id = listing.species_id
-				order by (p.listing_id is null), (p.clutch_id is null), p.position, p.id limit 1)`.as('photo_alt')
+				.as('held_here')
 		])
 		.where('cart_line.cart_id', '=', cartId)
 		.orderBy('cart_line.added_at')
@@ -275,14 +266,19 @@ export function lineProblem(row: {
 	return null;
 }
 
-/** The shipping fees per service from the settings row (the schema's defaults before it exists). */
-export async function shippingFees(db: Db): Promise<Record<Service, number>> {
+/** Fees per service and the hold time from the settings row (the schema's defaults before it exists). */
+async function cartSettings(
+	db: Db
+): Promise<{ fees: Record<Service, number>; holdMinutes: number }> {
 	const row = await db
 		.selectFrom('shop_setting')
-		.select(['fee_overnight_cents', 'fee_two_day_cents'])
+		.select(['fee_overnight_cents', 'fee_two_day_cents', 'reservation_minutes'])
 		.where('id', '=', true)
 		.executeTakeFirst();
-	return { overnight: row?.fee_overnight_cents ?? 4500, two_day: row?.fee_two_day_cents ?? 2800 };
+	return {
+		fees: { overnight: row?.fee_overnight_cents ?? 4500, two_day: row?.fee_two_day_cents ?? 2800 },
+		holdMinutes: row?.reservation_minutes ?? 15
+	};
 }
 
 /** The cart as a buyer sees it: every line, what can be bought, and the totals for `service`. */
@@ -291,8 +287,8 @@ export async function readCart(
 	cartId: string | null,
 	service: Service = 'overnight'
 ): Promise<CartView> {
-	const fees = await shippingFees(db);
-	if (!cartId) return emptyCart(service, fees);
+	const { fees, holdMinutes } = await cartSettings(db);
+	if (!cartId) return emptyCart(service, fees, holdMinutes);
 	const rows = await readLines(db, cartId);
 	const tiers = await readTiers(
 		db,
@@ -327,8 +323,7 @@ export async function readCart(
 			tiers: listingTiers,
 			tier: quantityToBuy > 0 ? tierFor(listingTiers, quantityToBuy) : null,
 			lineTotalCents: 0,
-			problem,
-			photo: row.photo_hash ? { hash: row.photo_hash, alt: row.photo_alt ?? '' } : null
+			problem
 		};
 	});
 	const priced = cartTotals(
@@ -357,6 +352,7 @@ export async function readCart(
 		itemCount: lines.reduce((sum, line) => sum + line.quantity, 0),
 		service,
 		fees,
+		holdMinutes,
 		subtotalCents: priced.subtotalCents,
 		shippingCents: priced.shippingCents,
 		totalCents: priced.totalCents,
@@ -365,13 +361,14 @@ export async function readCart(
 	};
 }
 
-function emptyCart(service: Service, fees: Record<Service, number>): CartView {
+function emptyCart(service: Service, fees: Record<Service, number>, holdMinutes: number): CartView {
 	return {
 		cartId: null,
 		lines: [],
 		itemCount: 0,
 		service,
 		fees,
+		holdMinutes,
 		subtotalCents: 0,
 		shippingCents: 0,
 		totalCents: 0,
@@ -557,16 +554,6 @@ export type HoldOutcome =
 			cart: CartView;
 	  };
 
-/** Minutes a hold lasts: the setting, or the schema default of 15 before a settings row exists. */
-async function holdMinutes(db: Db): Promise<number> {
-	const row = await db
-		.selectFrom('shop_setting')
-		.select('reservation_minutes')
-		.where('id', '=', true)
-		.executeTakeFirst();
-	return row?.reservation_minutes ?? 15;
-}
-
 /**
  * Checkout starts: every line of the cart is held for the shop's reservation time, in
  * one transaction, or nothing is. The clutches (and supply listings) behind the lines are
@@ -588,7 +575,7 @@ export async function holdCart(
 			cart: await readCart(db, null, service)
 		};
 	}
-	const minutes = await holdMinutes(db);
+	const minutes = (await cartSettings(db)).holdMinutes;
 	const result = await db
 		.transaction()
 		.execute(async (trx) => {

@@ -14,6 +14,8 @@ export const MAIL_SWEEP_QUEUE = 'mail-sweep';
 export const SHIP_RECHECK_QUEUE = 'ship-recheck';
 /** One job per listing gone live: mail its species' waitlist, once per entry. */
 export const WAITLIST_NOTIFY_QUEUE = 'waitlist-notify';
+/** Each minute: stock holds past their time are released, and stale guest carts removed. */
+export const HOLD_EXPIRY_QUEUE = 'hold-expiry';
 
 export interface MailSendJob {
 	outgoingMailId: number;

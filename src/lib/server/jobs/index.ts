@@ -19,6 +19,7 @@ import {
 } from '../mail';
 import { describeSmtpUrl, mailConfigFrom, type MailConfig } from '../mail/config';
 import { resolveShopTimeZone } from '../backoffice/settings';
+import { sweepExpiredHolds } from '../cart/cart';
 import { todayInZone } from '../../format/dates';
 import {
 	JOB_SCHEMA,
@@ -26,6 +27,7 @@ import {
 	MAIL_SWEEP_QUEUE,
 	SHIP_RECHECK_QUEUE,
 	WAITLIST_NOTIFY_QUEUE,
+	HOLD_EXPIRY_QUEUE,
 	setRunningBoss,
 	type MailSendJob,
 	type WaitlistNotifyJob
@@ -79,6 +81,9 @@ export interface JobRunner {
 
 /** The cron of the sweep; every 5 minutes is well inside the 10 minutes a row may wait. */
 const SWEEP_CRON = '*/5 * * * *';
+/** Every minute: a hold is 15 minutes by default, so it lapses at most a minute late in the table. */
+const HOLD_EXPIRY_CRON = '* * * * *';
+
 /** 06:15 shop time: forecasts for the day are out, and the keepers have not started packing. */
 export const SHIP_RECHECK_CRON = '15 6 * * *';
 
@@ -173,6 +178,13 @@ async function createQueues(
 		expireInSeconds: 600
 	};
 	await boss.createQueue(WAITLIST_NOTIFY_QUEUE, waitlistQueue);
+	// Reads already ignore expired holds; the sweep only tidies rows, so one run at a time.
+	await boss.createQueue(HOLD_EXPIRY_QUEUE, {
+		name: HOLD_EXPIRY_QUEUE,
+		policy: 'singleton',
+		retryLimit: 0,
+		expireInSeconds: 120
+	});
 }
 
 async function scheduleShipRecheck(
@@ -251,6 +263,12 @@ async function startOnce(
 				log(`[mail] sweep re-enqueued ${requeued.map((id) => `#${id}`).join(', ')}`);
 		});
 		await boss.schedule(MAIL_SWEEP_QUEUE, SWEEP_CRON);
+		await boss.work(HOLD_EXPIRY_QUEUE, { pollingIntervalSeconds: 30 }, async () => {
+			const swept = await sweepExpiredHolds(db);
+			if (swept.released || swept.cartsRemoved)
+				log(`[holds] released ${swept.released}, removed ${swept.cartsRemoved} stale guest carts`);
+		});
+		await boss.schedule(HOLD_EXPIRY_QUEUE, HOLD_EXPIRY_CRON);
 		if (options.shipRecheck) await scheduleShipRecheck(boss, db, options.shipRecheck, log);
 		const waitlistLinks = options.waitlist;
 		if (waitlistLinks) {
