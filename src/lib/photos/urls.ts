@@ -2,7 +2,7 @@
 // Pure: shared by the server (which names the files) and the components (which show them).
 
 /** What can carry photos uploaded in the back office. */
-export const PHOTO_TARGET_KINDS = ['species', 'colony', 'clutch'] as const;
+export const PHOTO_TARGET_KINDS = ['species', 'colony', 'clutch', 'listing'] as const;
 export type PhotoTargetKind = (typeof PHOTO_TARGET_KINDS)[number];
 export type PhotoTarget = { kind: PhotoTargetKind; id: number };
 

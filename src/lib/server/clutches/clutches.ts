@@ -22,6 +22,7 @@ import type {
 import type { Actor } from '$lib/server/accounts/users';
 import { writeAudit } from '$lib/server/audit';
 import { insertClutches } from '$lib/server/clutches/create';
+import { syncClutchListedState, syncClutchSoldOut } from '$lib/server/listings/listings';
 import { nextClutchCodes } from '$lib/server/stock/codes';
 import { daysBetween, todayInZone, type IsoDate } from '$lib/format/dates';
 import { sizeClassLabels, stageLabels } from '$lib/format/labels';
@@ -247,7 +248,9 @@ export async function recordLoss(
 			aliveBefore: row.count_alive,
 			aliveAfter: saved.count_alive
 		});
-		return { ok: true, clutch: snapshot(saved) };
+		// A loss can take the last free animal: the clutch and its live listings sell out.
+		const synced = await syncClutchSoldOut(trx, row.id, actor, today);
+		return { ok: true, clutch: snapshot(synced.clutch) };
 	});
 }
 
@@ -294,7 +297,9 @@ export async function recount(
 			before: countsOf(row),
 			after: change.counts
 		});
-		return { ok: true, clutch: snapshot(saved) };
+		// A lower count can leave nothing to sell: the clutch and its live listings sell out.
+		const synced = await syncClutchSoldOut(trx, row.id, actor, today);
+		return { ok: true, clutch: snapshot(synced.clutch) };
 	});
 }
 
@@ -453,7 +458,7 @@ export async function unpause(
 			.executeTakeFirst();
 		const target = unpauseTarget(row.state, lastPause?.from_value ?? null);
 		if (!target.ok) return refuse('note', target.problem);
-		const saved = await saveClutch(trx, row.id, { state: target.to, paused_reason: null });
+		await saveClutch(trx, row.id, { state: target.to, paused_reason: null });
 		await addEvent(trx, row.id, actor, {
 			kind: 'unpause',
 			fromValue: row.paused_reason,
@@ -466,7 +471,9 @@ export async function unpause(
 			to: target.to,
 			note: input.note.trim()
 		});
-		return { ok: true, clutch: snapshot(saved) };
+		// Back to listed with no live listing (withdrawn meanwhile) means ready; nothing left, sold out.
+		const settled = await syncClutchListedState(trx, row.id, actor, today);
+		return { ok: true, clutch: snapshot(settled) };
 	});
 }
 

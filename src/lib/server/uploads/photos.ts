@@ -104,14 +104,16 @@ export async function processPhoto(input: Uint8Array): Promise<ProcessOutcome> {
 const TARGET_COLUMN = {
 	species: 'species_id',
 	colony: 'colony_id',
-	clutch: 'clutch_id'
+	clutch: 'clutch_id',
+	listing: 'listing_id'
 } as const;
 
 function targetColumns(target: PhotoTarget) {
 	return {
 		species_id: target.kind === 'species' ? target.id : null,
 		colony_id: target.kind === 'colony' ? target.id : null,
-		clutch_id: target.kind === 'clutch' ? target.id : null
+		clutch_id: target.kind === 'clutch' ? target.id : null,
+		listing_id: target.kind === 'listing' ? target.id : null
 	};
 }
 
@@ -129,11 +131,12 @@ function toClientPhoto(row: PhotoRow): ClientPhoto {
 	};
 }
 
-/** The species, colony or clutch a photo belongs to (listing and claim photos have none here). */
+/** The species, colony, clutch or listing a photo belongs to (claim photos have none here). */
 function targetOf(row: PhotoRow): PhotoTarget | null {
 	if (row.species_id !== null) return { kind: 'species', id: row.species_id };
 	if (row.colony_id !== null) return { kind: 'colony', id: row.colony_id };
 	if (row.clutch_id !== null) return { kind: 'clutch', id: row.clutch_id };
+	if (row.listing_id !== null) return { kind: 'listing', id: row.listing_id };
 	return null;
 }
 
