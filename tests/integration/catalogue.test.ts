@@ -9,15 +9,28 @@ import {
 	type CatalogueQuery
 } from '../../src/lib/catalogue/filters';
 import { loadCataloguePage, type CatalogueCard } from '../../src/lib/server/catalogue/catalogue';
+import { loadShopListing, loadShopSpecies } from '../../src/lib/server/catalogue/shop-pages';
 import type { Db } from '../../src/lib/server/db';
 import type { ClutchStage, ClutchState, ListingState, Sex } from '../../src/lib/server/db/schema';
 import { scratchDatabase, type ScratchDatabase } from './support/databases';
 
 const HASH = (n: number) => n.toString(16).padStart(64, '0');
 
+type ListingKey =
+	| 'narceusJuveniles'
+	| 'narceusPair'
+	| 'porcellioGroup'
+	| 'cubarisFemales'
+	| 'springtailCulture'
+	| 'emptyShelf'
+	| 'soldOut'
+	| 'paused'
+	| 'draft'
+	| 'withdrawn';
+
 interface Fixture {
 	species: Record<'narceus' | 'porcellio' | 'cubaris', number>;
-	listings: Record<string, number>;
+	listings: Record<ListingKey, number>;
 }
 
 async function insertSpecies(
@@ -156,7 +169,10 @@ async function titles(db: Db, search: string): Promise<string[]> {
 describe('catalogue', () => {
 	let scratch: ScratchDatabase;
 	let db: Db;
-	const fx: Fixture = { species: { narceus: 0, porcellio: 0, cubaris: 0 }, listings: {} };
+	const fx: Fixture = {
+		species: { narceus: 0, porcellio: 0, cubaris: 0 },
+		listings: {} as Record<ListingKey, number>
+	};
 
 	beforeAll(async () => {
 		scratch = await scratchDatabase();
@@ -515,6 +531,126 @@ describe('catalogue', () => {
 			alt: 'Juvenile american giant millipede (Narceus americanus)'
 		});
 		await db.deleteFrom('photo').execute();
+	});
+
+	describe('the listing page', () => {
+		it('shows a listing on sale with its tiers, unit and lineage', async () => {
+			const listing = (await loadShopListing(db, 'test-listing-1'))!;
+			expect(listing).toMatchObject({
+				id: fx.listings.narceusJuveniles,
+				title: 'Narceus juveniles',
+				status: 'on_sale',
+				onOffer: 40,
+				unitLabel: 'each',
+				generation: 2,
+				stage: 'juvenile',
+				species: { slug: 'narceus-americanus', commonName: 'American giant millipede' }
+			});
+			expect(listing.tierLines.map((line) => line.text)).toEqual(['1 for $14.00 — $14.00 each']);
+		});
+
+		it('keeps the page of a listing that was published, saying why it cannot be bought', async () => {
+			const bySlug = async (id: number) => {
+				const row = await db
+					.selectFrom('listing')
+					.select('slug')
+					.where('id', '=', id)
+					.executeTakeFirstOrThrow();
+				return loadShopListing(db, row.slug);
+			};
+			expect(await bySlug(fx.listings.soldOut)).toMatchObject({ status: 'sold_out', onOffer: 0 });
+			expect(await bySlug(fx.listings.emptyShelf)).toMatchObject({
+				status: 'sold_out',
+				kind: 'supply'
+			});
+			expect(await bySlug(fx.listings.paused)).toMatchObject({
+				status: 'not_on_sale',
+				clutchState: 'paused',
+				onOffer: 0
+			});
+			expect(await bySlug(fx.listings.withdrawn)).toMatchObject({
+				status: 'not_on_sale',
+				state: 'withdrawn'
+			});
+			// A draft was never public: no page at all.
+			expect(await bySlug(fx.listings.draft)).toBeNull();
+			expect(await loadShopListing(db, 'no-such-listing')).toBeNull();
+		});
+	});
+
+	describe('the species page', () => {
+		const now = new Date('2026-12-01T17:00:00Z');
+
+		it('names the captive-bred generations on offer and lists the species’ listings', async () => {
+			const page = (await loadShopSpecies(db, 'narceus-americanus', {
+				now,
+				fallbackTimeZone: 'America/New_York'
+			}))!;
+			expect(page.species.common_name).toBe('American giant millipede');
+			expect(page.sheet.title).toBe('American giant millipede');
+			expect(page.anyOnOffer).toBe(true);
+			expect(page.generationsOnOffer).toEqual([2]);
+			expect(page.listings.map((card) => card.title)).toEqual([
+				'Narceus juveniles',
+				'Narceus breeding pair'
+			]);
+			expect(await loadShopSpecies(db, 'no-such-species', { now })).toBeNull();
+		});
+
+		it('offers the waitlist when nothing is on offer, and says what is coming', async () => {
+			const desert = await insertSpecies(db, {
+				slug: 'orthoporus-ornatus',
+				scientific: 'Orthoporus ornatus',
+				common: 'Desert millipede',
+				group: 'millipede',
+				summary: 'A banded desert millipede.'
+			});
+			const growing = (saleReadyOn: string, alive: number, state: ClutchState = 'growing') =>
+				db
+					.insertInto('clutch')
+					.values({
+						code: `TST-D${saleReadyOn}-${alive}`,
+						species_id: desert,
+						origin: 'bought_in',
+						generation: 3,
+						found_on: '2026-06-01',
+						stage: 'hatchling',
+						size_class: 'tiny',
+						count_found: alive,
+						count_alive: alive,
+						state,
+						paused_reason: state === 'paused' ? 'molting' : null,
+						sale_ready_on: saleReadyOn
+					})
+					.execute();
+			// 21 and 22 days out read the same; a paused clutch is promised to no one.
+			await growing('2026-12-22', 12);
+			await growing('2026-12-23', 8);
+			await growing('2027-01-26', 30);
+			await growing('2026-12-20', 50, 'paused');
+			const page = (await loadShopSpecies(db, 'orthoporus-ornatus', {
+				now,
+				fallbackTimeZone: 'America/New_York'
+			}))!;
+			expect(page.anyOnOffer).toBe(false);
+			expect(page.generationsOnOffer).toEqual([]);
+			expect(page.listings).toEqual([]);
+			expect(page.today).toBe('2026-12-01');
+			expect(page.comingSoon).toEqual([
+				{
+					saleReadyOn: '2026-12-22',
+					readyIn: 'ready in about 3 weeks',
+					countAlive: 20,
+					clutches: 2
+				},
+				{
+					saleReadyOn: '2027-01-26',
+					readyIn: 'ready in about 8 weeks',
+					countAlive: 30,
+					clutches: 1
+				}
+			]);
+		});
 	});
 
 	describe('keyset pages over a few hundred listings', () => {

@@ -5,7 +5,8 @@ import {
 	photoAlt,
 	tierLines,
 	unitCount,
-	unitLabel
+	unitLabel,
+	upperFirst
 } from './words';
 
 describe('units', () => {
@@ -30,6 +31,7 @@ describe('generations', () => {
 		expect(generationLabel(2)).toBe('captive-bred F2');
 		expect(generationLabel(0)).toBe('wild-caught (F0)');
 		expect(() => generationLabel(-1)).toThrow(RangeError);
+		expect(upperFirst(generationLabel(3))).toBe('Captive-bred F3');
 	});
 
 	it('lists the generations on offer once each, in order', () => {
@@ -100,7 +102,14 @@ describe('tierLines', () => {
 			'1 group of 5 for $32.00 — $32.00 a group, $6.40 an animal',
 			'3 groups of 5 for $84.00 — $28.00 a group, $5.60 an animal, save 13%'
 		]);
-		expect(lines[1]).toMatchObject({ perUnitCents: 2800, perAnimalCents: 560, totalCents: 8400 });
+		expect(lines[1]).toMatchObject({
+			perUnitCents: 2800,
+			perAnimalCents: 560,
+			totalCents: 8400,
+			quantityText: '3 groups of 5',
+			rateText: '$28.00 a group, $5.60 an animal',
+			savingPercent: 13
+		});
 		expect(
 			tierLines([{ minQuantity: 1, priceCents: 900 }], 2, 'pair').map((line) => line.text)
 		).toEqual(['1 pair for $9.00 — $9.00 a pair, $4.50 an animal']);

@@ -74,6 +74,10 @@ export interface TierLine {
 	perUnitCents: number;
 	perAnimalCents: number;
 	savingPercent: number;
+	/** "5", "2 pairs", "3 groups of 5" */
+	quantityText: string;
+	/** "$12.00 each", "$28.00 a group, $5.60 an animal" */
+	rateText: string;
 	/** "5 for $60.00 — $12.00 each, save 14%" */
 	text: string;
 }
@@ -82,11 +86,11 @@ export interface TierLine {
 export function tierLines(tiers: readonly PriceTier[], unitSize: number, sex: Sex): TierLine[] {
 	const unit = unitLabel(unitSize, sex);
 	return tierTable(tiers, unitSize).map((row) => {
-		const count =
+		const quantityText =
 			unit === 'each'
 				? String(row.tier.minQuantity)
 				: unitCount(row.tier.minQuantity, unitSize, sex);
-		const rate =
+		const rateText =
 			unit === 'each'
 				? `${formatCents(row.perUnitCents)} each`
 				: `${formatCents(row.perUnitCents)} a ${unit === 'pair' ? 'pair' : 'group'}, ${formatCents(row.perAnimalCents)} an animal`;
@@ -97,7 +101,14 @@ export function tierLines(tiers: readonly PriceTier[], unitSize: number, sex: Se
 			perUnitCents: row.perUnitCents,
 			perAnimalCents: row.perAnimalCents,
 			savingPercent: row.savingPercent,
-			text: `${count} for ${formatCents(row.tier.priceCents)} — ${rate}${saving}`
+			quantityText,
+			rateText,
+			text: `${quantityText} for ${formatCents(row.tier.priceCents)} — ${rateText}${saving}`
 		};
 	});
+}
+
+/** "Captive-bred F2": the same words at the start of a line. */
+export function upperFirst(text: string): string {
+	return text.charAt(0).toUpperCase() + text.slice(1);
 }

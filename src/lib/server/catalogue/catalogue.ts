@@ -228,6 +228,7 @@ function firstPhoto(eb: ExpressionBuilder<Database, 'listing'>) {
 			.selectFrom('photo')
 			.select('photo.id')
 			.whereRef(`photo.${column}`, '=', `listing.${owner}`)
+			.where(sql<SqlBool>`cardinality(photo.widths) > 0`)
 			.orderBy('photo.position')
 			.orderBy('photo.id')
 			.limit(1);
@@ -337,4 +338,50 @@ export async function cardsAt(
 			}
 		];
 	});
+}
+
+export interface ShopSpeciesOption {
+	slug: string;
+	commonName: string;
+	scientificName: string;
+	group: AnimalGroup;
+}
+
+/** Every species, for the catalogue's species filter: by group, then common name. */
+export async function listShopSpecies(db: Db): Promise<ShopSpeciesOption[]> {
+	const rows = await db
+		.selectFrom('species')
+		.select(['slug', 'common_name', 'scientific_name', 'animal_group'])
+		.orderBy('animal_group')
+		.orderBy('common_name')
+		.execute();
+	return rows.map((row) => ({
+		slug: row.slug,
+		commonName: row.common_name,
+		scientificName: row.scientific_name,
+		group: row.animal_group
+	}));
+}
+
+/** What the sitemap lists: every species page and every listing a visitor can see. */
+export async function crawlablePages(db: Db): Promise<{
+	species: { slug: string; updatedAt: Date }[];
+	listings: { slug: string; updatedAt: Date }[];
+}> {
+	const [species, listings] = await Promise.all([
+		db.selectFrom('species').select(['slug', 'updated_at']).orderBy('slug').execute(),
+		db
+			.selectFrom('listing')
+			.leftJoin('clutch', 'clutch.id', 'listing.clutch_id')
+			.select(['listing.slug', 'listing.updated_at'])
+			.where(shopVisible)
+			.where('listing.published_at', 'is not', null)
+			.orderBy('listing.published_at', 'desc')
+			.orderBy('listing.id', 'desc')
+			.execute()
+	]);
+	return {
+		species: species.map((row) => ({ slug: row.slug, updatedAt: row.updated_at })),
+		listings: listings.map((row) => ({ slug: row.slug, updatedAt: row.updated_at }))
+	};
 }

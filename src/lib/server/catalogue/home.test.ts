@@ -3,12 +3,14 @@ import { groupUpcoming } from './home';
 
 const narceus = {
 	speciesId: 1,
+	slug: 'narceus-americanus',
 	commonName: 'American giant millipede',
 	scientificName: 'Narceus americanus',
 	group: 'millipede' as const
 };
 const porcellio = {
 	speciesId: 2,
+	slug: 'porcellio-laevis',
 	commonName: 'Dairy cow isopod',
 	scientificName: 'Porcellio laevis',
 	group: 'isopod' as const

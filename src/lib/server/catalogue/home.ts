@@ -1,7 +1,9 @@
-// What the shop's home page shows: every species, the animal listings on sale now,
+// What the shop's home page shows: every species, the animal listings with units on offer,
 // and the clutches growing toward sale size in the next 12 weeks.
 import type { Db } from '$lib/server/db';
-import type { AnimalGroup, ClutchStage, Sex } from '$lib/server/db/schema';
+import type { AnimalGroup } from '$lib/server/db/schema';
+import { defaultCatalogueQuery } from '$lib/catalogue/filters';
+import { loadCataloguePage, type CatalogueCard } from './catalogue';
 import { addDays, formatReadyIn, todayInZone, type IsoDate } from '$lib/format/dates';
 import { resolveShopTimeZone } from '$lib/server/backoffice/settings';
 
@@ -20,25 +22,6 @@ export interface SpeciesSummary {
 	adultLengthMm: number;
 }
 
-export interface PriceTierView {
-	minQuantity: number;
-	priceCents: number;
-}
-
-export interface ReadyListing {
-	id: number;
-	slug: string;
-	title: string;
-	description: string;
-	unitSize: number;
-	sex: Sex;
-	stage: ClutchStage | null;
-	commonName: string;
-	scientificName: string;
-	group: AnimalGroup;
-	priceTiers: PriceTierView[];
-}
-
 export interface UpcomingBatch {
 	/** Earliest projected sale-ready date in this batch. */
 	saleReadyOn: IsoDate;
@@ -49,6 +32,7 @@ export interface UpcomingBatch {
 
 export interface UpcomingSpecies {
 	speciesId: number;
+	slug: string;
 	commonName: string;
 	scientificName: string;
 	group: AnimalGroup;
@@ -59,7 +43,10 @@ export interface ShopHome {
 	timeZone: string;
 	today: IsoDate;
 	species: SpeciesSummary[];
-	readyStock: ReadyListing[];
+	/** Animal listings with units on offer now, newest first (the catalogue's own cards). */
+	readyStock: CatalogueCard[];
+	/** More are on offer than the home page shows. */
+	moreReady: boolean;
 	comingSoon: UpcomingSpecies[];
 }
 
@@ -84,12 +71,12 @@ export async function loadShopHome(
 ): Promise<ShopHome> {
 	const timeZone = await resolveShopTimeZone(db, options.fallbackTimeZone);
 	const today = todayInZone(timeZone, options.now);
-	const [species, readyStock, comingSoon] = await Promise.all([
+	const [species, ready, comingSoon] = await Promise.all([
 		listSpecies(db),
 		listReadyStock(db),
 		listComingSoon(db, today)
 	]);
-	return { timeZone, today, species, readyStock, comingSoon };
+	return { timeZone, today, species, readyStock: ready.cards, moreReady: ready.more, comingSoon };
 }
 
 async function listSpecies(db: Db): Promise<SpeciesSummary[]> {
@@ -122,61 +109,17 @@ async function listSpecies(db: Db): Promise<SpeciesSummary[]> {
 	}));
 }
 
-async function listReadyStock(db: Db): Promise<ReadyListing[]> {
-	const listings = await db
-		.selectFrom('listing')
-		.innerJoin('species', 'species.id', 'listing.species_id')
-		.leftJoin('clutch', 'clutch.id', 'listing.clutch_id')
-		.select([
-			'listing.id',
-			'listing.slug',
-			'listing.title',
-			'listing.description',
-			'listing.unit_size',
-			'listing.sex',
-			'clutch.stage',
-			'species.common_name',
-			'species.scientific_name',
-			'species.animal_group'
-		])
-		.where('listing.state', '=', 'live')
-		.where('listing.kind', '=', 'animal')
-		.orderBy('listing.published_at', (order) => order.desc().nullsLast())
-		.orderBy('listing.id', 'desc')
-		.execute();
-	if (listings.length === 0) return [];
+/** How many ready listings the home page shows before it hands over to the catalogue. */
+export const HOME_READY_LIMIT = 6;
 
-	const tiers = await db
-		.selectFrom('price_tier')
-		.select(['listing_id', 'min_quantity', 'price_cents'])
-		.where(
-			'listing_id',
-			'in',
-			listings.map((listing) => listing.id)
-		)
-		.orderBy('listing_id')
-		.orderBy('min_quantity')
-		.execute();
-	const tiersByListing = new Map<number, PriceTierView[]>();
-	for (const tier of tiers) {
-		const list = tiersByListing.get(tier.listing_id) ?? [];
-		list.push({ minQuantity: tier.min_quantity, priceCents: tier.price_cents });
-		tiersByListing.set(tier.listing_id, list);
-	}
-
-	return listings.map((listing) => ({
-		id: listing.id,
-		slug: listing.slug,
-		title: listing.title,
-		description: listing.description,
-		unitSize: listing.unit_size,
-		sex: listing.sex,
-		stage: listing.stage,
-		commonName: listing.common_name,
-		scientificName: listing.scientific_name,
-		group: listing.animal_group,
-		priceTiers: tiersByListing.get(listing.id) ?? []
-	}));
+async function listReadyStock(db: Db): Promise<{ cards: CatalogueCard[]; more: boolean }> {
+	const query = defaultCatalogueQuery();
+	const page = await loadCataloguePage(
+		db,
+		{ ...query, filters: { ...query.filters, inStock: true } },
+		{ limit: HOME_READY_LIMIT, kind: 'animal' }
+	);
+	return { cards: page.cards, more: page.next !== null };
 }
 
 async function listComingSoon(db: Db, today: IsoDate): Promise<UpcomingSpecies[]> {
@@ -187,6 +130,7 @@ async function listComingSoon(db: Db, today: IsoDate): Promise<UpcomingSpecies[]
 		.innerJoin('species', 'species.id', 'clutch.species_id')
 		.select((eb) => [
 			'species.id as species_id',
+			'species.slug',
 			'species.common_name',
 			'species.scientific_name',
 			'species.animal_group',
@@ -199,6 +143,7 @@ async function listComingSoon(db: Db, today: IsoDate): Promise<UpcomingSpecies[]
 		.where('clutch.sale_ready_on', '<=', horizon)
 		.groupBy([
 			'species.id',
+			'species.slug',
 			'species.common_name',
 			'species.scientific_name',
 			'species.animal_group',
@@ -210,6 +155,7 @@ async function listComingSoon(db: Db, today: IsoDate): Promise<UpcomingSpecies[]
 	return groupUpcoming(
 		rows.map((row) => ({
 			speciesId: row.species_id,
+			slug: row.slug,
 			commonName: row.common_name,
 			scientificName: row.scientific_name,
 			group: row.animal_group,
@@ -223,6 +169,7 @@ async function listComingSoon(db: Db, today: IsoDate): Promise<UpcomingSpecies[]
 
 interface UpcomingRow {
 	speciesId: number;
+	slug: string;
 	commonName: string;
 	scientificName: string;
 	group: AnimalGroup;
@@ -243,6 +190,7 @@ export function groupUpcoming(rows: readonly UpcomingRow[], today: IsoDate): Upc
 		if (!entry) {
 			entry = {
 				speciesId: row.speciesId,
+				slug: row.slug,
 				commonName: row.commonName,
 				scientificName: row.scientificName,
 				group: row.group,
