@@ -25,7 +25,9 @@ export const leaveEntrySchema = z.object({
 export type GuestJoinInput = z.infer<typeof guestJoinSchema>;
 export type LeaveEntryInput = z.infer<typeof leaveEntrySchema>;
 
+export const LEAVE_FORM_PREFIX = 'waitlist-leave-';
+
 /** Each entry on the account page has its own leave form, told apart by this id. */
 export function leaveFormId(entryId: number): string {
-	return `waitlist-leave-${entryId}`;
+	return `${LEAVE_FORM_PREFIX}${entryId}`;
 }
