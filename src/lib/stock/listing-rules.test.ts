@@ -1,4 +1,6 @@
 import { describe, expect, it } from 'vitest';
+import { superValidate } from 'sveltekit-superforms';
+import { zod4 } from 'sveltekit-superforms/adapters';
 import {
 	LISTING_LIMITS,
 	describeListingAudit,
@@ -390,5 +392,34 @@ describe('describeListingAudit', () => {
 			'Put on sale for the first time, 12 on offer.'
 		);
 		expect(describeListingAudit('listing.withdraw', {})).toBe('Taken off sale.');
+	});
+});
+
+describe('the listing form through superforms', () => {
+	it('reads repeated tier fields as rows and puts each error beside its box', async () => {
+		const body = new FormData();
+		body.set('title', 'Pill bugs, group of 10');
+		body.set('unitSize', '10');
+		for (const [quantity, price] of [
+			['5', '60'],
+			['10', 'abc']
+		]) {
+			body.append('tierQuantity', quantity);
+			body.append('tierPrice', price);
+		}
+		const form = await superValidate(body, zod4(listingFormSchema));
+		expect(form.data.tierQuantity).toEqual(['5', '10']);
+		expect(form.valid).toBe(false);
+		expect(form.errors.tierPrice?.[1]).toEqual([
+			'Write the amount as dollars and cents, e.g. 12.50.'
+		]);
+
+		body.set('tierPrice', '60');
+		body.append('tierPrice', '110');
+		const noSingle = await superValidate(body, zod4(listingFormSchema));
+		// A problem with the rows as a set sits on the list, not on one box.
+		expect(noSingle.errors.tierQuantity?._errors).toEqual([
+			'Add a row for 1 unit, so any quantity has a price.'
+		]);
 	});
 });

@@ -92,11 +92,11 @@ const listingShape = {
 	tierQuantity: z
 		.array(z.string().trim().max(TIER_QUANTITY_LENGTH, 'A whole number of units, 1 or more.'))
 		.max(LISTING_LIMITS.tierRows, `At most ${LISTING_LIMITS.tierRows} price rows.`)
-		.default(['1', '', '']),
+		.default([]),
 	tierPrice: z
 		.array(z.string().trim().max(20, 'Write the price as dollars and cents, e.g. 14.00.'))
 		.max(LISTING_LIMITS.tierRows, `At most ${LISTING_LIMITS.tierRows} price rows.`)
-		.default(['', '', ''])
+		.default([])
 };
 
 function checkListing(
@@ -252,6 +252,11 @@ export function readTierRows(quantities: readonly string[], prices: readonly str
 	}
 	if (problems.length > 0) return { tiers: [], problems };
 	return { tiers: sortedTiers(plain), problems: [] };
+}
+
+/** The editor of a new listing: a row for one unit (the row every listing needs) and two blanks. */
+export function newTierRows(): { tierQuantity: string[]; tierPrice: string[] } {
+	return { tierQuantity: ['1', '', ''], tierPrice: ['', '', ''] };
 }
 
 /** Tiers as the editor shows them: dollars text, smallest quantity first, plus one blank row. */

@@ -20,6 +20,7 @@ import { listPhotos } from '$lib/server/uploads/photos';
 import {
 	draftFromClutchProblem,
 	listingFormSchema,
+	newTierRows,
 	suggestedDescription,
 	suggestedTitle
 } from '$lib/stock/listing-rules';
@@ -56,7 +57,7 @@ export const load: PageServerLoad = async (event) => {
 				label: `${s.commonName} (${s.scientificName})`
 			})),
 			form: await superValidate(
-				{ kind: 'supply', isLive: false, unitSize: 1, sex: 'unsexed' },
+				{ kind: 'supply', isLive: false, unitSize: 1, sex: 'unsexed', ...newTierRows() },
 				zod4(listingFormSchema),
 				{ errors: false }
 			)
@@ -90,7 +91,8 @@ export const load: PageServerLoad = async (event) => {
 				}),
 				unitSize: 1,
 				sex: 'unsexed',
-				isLive: true
+				isLive: true,
+				...newTierRows()
 			},
 			zod4(listingFormSchema),
 			{ errors: false }
