@@ -350,6 +350,13 @@ describe('species waitlists', () => {
 			expect((await customerEntryFor(db, jory, speciesId))?.standing).toBe('waiting');
 			// No mail: signing in already proved the address.
 			expect(await mailsOf('waitlist_confirm', jory.email)).toHaveLength(0);
+			// Joining is asking to be told: the account's waitlist-mail choice is now on.
+			const profile = await db
+				.selectFrom('user_profile')
+				.select('wants_waitlist_mail')
+				.where('user_id', '=', jory.id)
+				.executeTakeFirstOrThrow();
+			expect(profile.wants_waitlist_mail).toBe(true);
 		});
 
 		it('confirms a guest entry made earlier with the same address', async () => {
@@ -405,10 +412,11 @@ describe('species waitlists', () => {
 			]);
 			expect(expected).toContain('wade.keeper@example.test');
 			expect(expected).not.toContain(unconfirmed);
-			// Jory joined above, but his saved mail choices say no to waitlist mail (the demo's).
+			// Jory's saved choices said no to waitlist mail (the demo's), but joining above is
+			// asking to be told, so it switched that choice on.
 			const jory = demoEmail('jory');
 			expect(await entry(jory)).toBeDefined();
-			expect(expected).not.toContain(jory);
+			expect(expected).toContain(jory);
 
 			const listingId = await publishListing();
 			// The publishing transaction queued the job with it.
@@ -443,7 +451,7 @@ describe('species waitlists', () => {
 				expect(row.notified_listing_id).toBe(listingId);
 			}
 			expect((await entry(unconfirmed))?.notified_at).toBeNull();
-			expect((await entry(jory))?.notified_at).toBeNull();
+			expect((await entry(jory))?.notified_at).toBeInstanceOf(Date);
 
 			// Dagny's account page shows the notice and the listing it was about.
 			const dagny = await user(demoEmail('dagny'));

@@ -83,3 +83,25 @@ export async function saveProfile(
 		});
 	});
 }
+
+/**
+ * Joining a waitlist is asking to be told: the account's "tell me when a species on my
+ * waitlist is ready" choice is switched on with it (in the caller's transaction), so a
+ * profile saved earlier with the box unticked does not silently swallow the notice.
+ */
+export async function wantWaitlistMail(db: Kysely<Database>, userId: string): Promise<boolean> {
+	const before = await db
+		.selectFrom('user_profile')
+		.select('wants_waitlist_mail')
+		.where('user_id', '=', userId)
+		.executeTakeFirst();
+	if (before?.wants_waitlist_mail) return false;
+	await db
+		.insertInto('user_profile')
+		.values({ user_id: userId, wants_waitlist_mail: true })
+		.onConflict((oc) =>
+			oc.column('user_id').doUpdateSet({ wants_waitlist_mail: true, updated_at: new Date() })
+		)
+		.execute();
+	return true;
+}

@@ -3,6 +3,7 @@
 // apart from the notice marks the worker (worker.ts) sets.
 //
 // No $env or $app imports here: routes pass the links' origin and secret, tests theirs.
+import { wantWaitlistMail } from '../accounts/profile';
 import { sql } from 'kysely';
 import type { Db } from '../db/connect';
 import type { AnimalGroup } from '../db/schema';
@@ -255,6 +256,7 @@ export async function joinAsCustomer(
 			});
 			if (id !== null) {
 				await auditJoin(trx, actor, id, species.id, email, 'create');
+				await wantWaitlistMail(trx, input.user.id);
 				return { ok: true, outcome: 'joined', entryId: id };
 			}
 			entry = await lockEntry(trx, species.id, email);
@@ -288,6 +290,7 @@ export async function joinAsCustomer(
 			.where('id', '=', entry.id)
 			.execute();
 		await auditJoin(trx, actor, entry.id, species.id, email, step);
+		await wantWaitlistMail(trx, input.user.id);
 		return { ok: true, outcome: 'joined', entryId: entry.id };
 	});
 }
