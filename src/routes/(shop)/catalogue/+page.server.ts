@@ -1,5 +1,4 @@
 import { error } from '@sveltejs/kit';
-import { resolve } from '$app/paths';
 import {
 	catalogueHref,
 	catalogueSortLabels,
@@ -23,7 +22,8 @@ export interface ActiveFilter {
 }
 
 export const load: PageServerLoad = async ({ url }) => {
-	const path = resolve('/catalogue');
+	// A root path, not resolve(): links made in a load must not depend on which page asked.
+	const path = '/catalogue';
 	const parsed = parseCatalogueQuery(url.searchParams);
 	const notes = [...parsed.notes];
 	let query: CatalogueQuery = parsed.query;
