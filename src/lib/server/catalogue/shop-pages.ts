@@ -303,15 +303,34 @@ export async function loadShopSpecies(
 			.execute()
 	]);
 	// Whether anything is on offer, and its generations, come from every listing of the
-	// species (supplies such as cultures too), not only from the ones on this page.
-	const onOffer = await db
+	// species (supplies such as cultures too), not only from the ones on this page. Each
+	// kind (a generation, or supplies) stops at its first listing on offer, so a species
+	// with a thousand listings costs a handful of offer checks, not a thousand.
+	const kinds = await db
 		.selectFrom('listing')
 		.leftJoin('clutch', 'clutch.id', 'listing.clutch_id')
-		.select(['listing.id', 'clutch.generation'])
+		.select('clutch.generation')
+		.distinct()
 		.where(shopVisible)
 		.where('listing.species_id', '=', species.id)
-		.where(onOfferSql(sql.ref('listing.id')), '>', 0)
 		.execute();
+	const offered = await Promise.all(
+		kinds.map(async ({ generation }) => {
+			let anyListing = db
+				.selectFrom('listing')
+				.leftJoin('clutch', 'clutch.id', 'listing.clutch_id')
+				.select('listing.id')
+				.where(shopVisible)
+				.where('listing.species_id', '=', species.id)
+				.where(onOfferSql(sql.ref('listing.id')), '>', 0);
+			anyListing =
+				generation === null
+					? anyListing.where('listing.kind', '=', 'supply')
+					: anyListing.where('clutch.generation', '=', generation);
+			return (await anyListing.limit(1).executeTakeFirst()) ? { generation } : null;
+		})
+	);
+	const onOffer = offered.filter((kind): kind is { generation: number | null } => kind !== null);
 
 	const grouped = groupUpcoming(
 		upcoming.map((row) => ({
