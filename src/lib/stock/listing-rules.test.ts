@@ -400,10 +400,11 @@ describe('the listing form through superforms', () => {
 		const body = new FormData();
 		body.set('title', 'Pill bugs, group of 10');
 		body.set('unitSize', '10');
-		for (const [quantity, price] of [
+		const rows: [string, string][] = [
 			['5', '60'],
 			['10', 'abc']
-		]) {
+		];
+		for (const [quantity, price] of rows) {
 			body.append('tierQuantity', quantity);
 			body.append('tierPrice', price);
 		}
