@@ -528,7 +528,7 @@ describe('catalogue', () => {
 		// The clutch photo has no description: one is built from the species and stage.
 		expect(again[0]!.photo).toMatchObject({
 			hash: HASH(2),
-			alt: 'Juvenile american giant millipede (Narceus americanus)'
+			alt: 'American giant millipede (Narceus americanus), juvenile'
 		});
 		await db.deleteFrom('photo').execute();
 	});

@@ -57,7 +57,7 @@ describe('photoAlt', () => {
 	});
 
 	it('builds one from the species and stage when there is none', () => {
-		expect(photoAlt('', subject)).toBe('Juvenile american giant millipede (Narceus americanus)');
+		expect(photoAlt('', subject)).toBe('American giant millipede (Narceus americanus), juvenile');
 		expect(photoAlt(null, { ...subject, stage: null })).toBe(
 			'American giant millipede (Narceus americanus)'
 		);

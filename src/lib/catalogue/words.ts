@@ -53,8 +53,8 @@ export interface PhotoSubject {
 }
 
 /**
- * The photo's own description, or one built from what it shows: "Juvenile American
- * giant millipede (Narceus americanus)". Never empty: every shop photo carries content.
+ * The photo's own description, or one built from what it shows: "American giant
+ * millipede (Narceus americanus), juvenile". Never empty: every shop photo carries content.
  */
 export function photoAlt(altText: string | null | undefined, subject: PhotoSubject): string {
 	const own = altText?.trim();
@@ -64,8 +64,7 @@ export function photoAlt(altText: string | null | undefined, subject: PhotoSubje
 		? `${subject.commonName} (${subject.scientificName})`
 		: subject.commonName;
 	if (!subject.stage) return named;
-	const stage = stageLabels[subject.stage];
-	return `${stage} ${named.charAt(0).toLowerCase()}${named.slice(1)}`;
+	return `${named}, ${stageLabels[subject.stage].toLowerCase()}`;
 }
 
 export interface TierLine {
