@@ -318,7 +318,8 @@ export type SpeciesForm = z.infer<typeof speciesFormSchema>;
 export type SpeciesFormField = keyof SpeciesForm;
 
 /** The stored columns of a species, as the server module writes them. */
-export type SpeciesValues = Omit<Species, 'id' | 'created_at' | 'updated_at'>;
+// search is kept by PostgreSQL from the names and summary, never written.
+export type SpeciesValues = Omit<Species, 'id' | 'created_at' | 'updated_at' | 'search'>;
 
 function required(value: number | null, field: string): number {
 	if (value === null) throw new TypeError(`${field} is missing: validate the form first`);
