@@ -27,8 +27,8 @@ export async function up(db: AnyDb): Promise<void> {
 		db
 	);
 	await sql`update listing set base_price_cents = (
-		select round(t.price_cents::numeric / t.min_quantity / listing.unit_size)::integer
-		from price_tier t where t.listing_id = listing.id order by t.min_quantity limit 1
+		select min(round(t.price_cents::numeric / (t.min_quantity * listing.unit_size)))::integer
+		from price_tier t where t.listing_id = listing.id
 	)`.execute(db);
 	await sql`create index listing_price_idx on listing (state, base_price_cents, id)`.execute(db);
 
