@@ -80,7 +80,9 @@ test('a guest finds, reads about and reserves captive-bred stock, then signs in 
 	await page.getByRole('button', { name: 'Check the ship date' }).click();
 	await expect(page.getByText(/The box gets a cold pack/)).toBeVisible();
 	await expect(page.getByText(/First safe ship date/)).toBeVisible();
-	await expect(page.getByText(/staffed carrier facility/)).toBeVisible();
+	await expect(
+		page.getByText(/Consider collecting it from a staffed carrier facility/)
+	).toBeVisible();
 	// Totals from the server: $60.00 of animals plus the demo's $45.00 overnight fee.
 	const total = page.getByRole('region', { name: 'Total' });
 	await expect(total.getByText('$105.00')).toBeVisible();
