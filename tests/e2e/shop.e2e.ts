@@ -22,10 +22,11 @@ test('a guest finds, reads about and reserves captive-bred stock, then signs in 
 }, info) => {
 	test.setTimeout(90_000);
 	const width = info.project.name;
-	// Each width signs in as its own customer, so the two runs never share an account cart.
+	// Each width signs in as its own demo customer, so the two runs never share an account
+	// cart, and neither is one whose password the account tests change.
 	const customer = DEMO_ACCOUNTS.find(
 		(a) =>
-			a.email === (width === 'phone' ? 'marisol.ocampo@example.com' : 'jory.whitfield@example.test')
+			a.email === (width === 'phone' ? 'ines.farrow@example.test' : 'dagny.halvorsen@example.com')
 	)!;
 
 	await page.goto('/');
