@@ -13,7 +13,13 @@ export default defineConfig({
 				extends: true,
 				test: {
 					name: 'unit',
-					include: ['src/**/*.test.ts', 'seed/**/*.test.ts', 'scripts/**/*.test.ts']
+					include: [
+						'src/**/*.test.ts',
+						'seed/**/*.test.ts',
+						'scripts/**/*.test.ts',
+						// Pure parts of the local service fakes.
+						'tests/fakes/**/*.test.ts'
+					]
 				}
 			},
 			{
