@@ -1,59 +1,14 @@
 // Where live animals can go: the contiguous United States and DC. Alaska, Hawaii, the
 // territories and military post offices are beyond reliable overnight or two-day ground
 // transit for live animals, so the shop does not ship there. Pure.
+import { US_STATES } from '$lib/accounts/schemas';
+
+const BEYOND_GROUND_TRANSIT = new Set(['AK', 'HI']);
 
 /** USPS codes of the 48 contiguous states and the District of Columbia. */
-export const SHIPPING_AREA_STATES: ReadonlySet<string> = new Set([
-	'AL',
-	'AZ',
-	'AR',
-	'CA',
-	'CO',
-	'CT',
-	'DE',
-	'DC',
-	'FL',
-	'GA',
-	'ID',
-	'IL',
-	'IN',
-	'IA',
-	'KS',
-	'KY',
-	'LA',
-	'ME',
-	'MD',
-	'MA',
-	'MI',
-	'MN',
-	'MS',
-	'MO',
-	'MT',
-	'NE',
-	'NV',
-	'NH',
-	'NJ',
-	'NM',
-	'NY',
-	'NC',
-	'ND',
-	'OH',
-	'OK',
-	'OR',
-	'PA',
-	'RI',
-	'SC',
-	'SD',
-	'TN',
-	'TX',
-	'UT',
-	'VT',
-	'VA',
-	'WA',
-	'WV',
-	'WI',
-	'WY'
-]);
+export const SHIPPING_AREA_STATES: ReadonlySet<string> = new Set(
+	US_STATES.filter((state) => !BEYOND_GROUND_TRANSIT.has(state))
+);
 
 /** Why a place (by its USPS state code) is outside the shipping area, or null. */
 export function shippingAreaProblem(zip: string, state: string): string | null {

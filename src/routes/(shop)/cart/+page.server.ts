@@ -1,7 +1,7 @@
 // The cart page. Its load prices the cart on the server for the chosen service and, when a
 // ZIP was given, asks for the ship estimate, so the page is whole without JavaScript. The
 // actions are the same changes the JSON routes make, for browsers without JavaScript.
-import { fail, redirect } from '@sveltejs/kit';
+import { fail, redirect, type RequestEvent } from '@sveltejs/kit';
 import { env } from '$env/dynamic/private';
 import { getDb, getPool } from '$lib/server/db';
 import { writeAudit } from '$lib/server/audit';
@@ -80,47 +80,42 @@ async function formOf(request: Request): Promise<Record<string, FormDataEntryVal
 	return Object.fromEntries(await request.formData());
 }
 
-export const actions: Actions = {
-	add: async (event) => {
-		const db = getDb();
-		const owner = await cartOwner(event);
-		const form = await formOf(event.request);
-		const parsed = cartLineSchema.safeParse(form);
-		if (!parsed.success)
-			return fail(400, {
-				listingId: Number(form.listingId) || null,
-				fields: fieldProblems(parsed.error),
-				message: 'That could not be added to your cart.'
-			});
-		const outcome = await changeLine(db, owner, { ...parsed.data, mode: 'add' });
-		rememberGuestCart(event, owner, outcome.cartId);
-		if (!outcome.ok)
-			return fail(outcome.status, {
-				listingId: parsed.data.listingId,
-				fields: { [outcome.field]: outcome.problem },
-				message: outcome.problem
-			});
-		redirect(303, '/cart?added=1');
-	},
-	update: async (event) => {
-		const db = getDb();
-		const owner = await cartOwner(event);
-		const form = await formOf(event.request);
-		const parsed = cartLineSchema.safeParse(form);
-		if (!parsed.success)
-			return fail(400, {
+/** Add to a line or set it, from a form post: the refusal keeps the listing and the reason. */
+async function lineChange(event: RequestEvent, mode: 'add' | 'set') {
+	const db = getDb();
+	const owner = await cartOwner(event);
+	const form = await formOf(event.request);
+	const parsed = cartLineSchema.safeParse(form);
+	if (!parsed.success)
+		return {
+			refusal: fail(400, {
 				listingId: Number(form.listingId) || null,
 				fields: fieldProblems(parsed.error),
 				message: 'That change could not be made.'
-			});
-		const outcome = await changeLine(db, owner, { ...parsed.data, mode: 'set' });
-		if (!outcome.ok)
-			return fail(outcome.status, {
+			})
+		};
+	const outcome = await changeLine(db, owner, { ...parsed.data, mode });
+	rememberGuestCart(event, owner, outcome.cartId);
+	if (!outcome.ok)
+		return {
+			refusal: fail(outcome.status, {
 				listingId: parsed.data.listingId,
 				fields: { [outcome.field]: outcome.problem },
 				message: outcome.problem
-			});
-		return { changed: parsed.data.listingId };
+			})
+		};
+	return { listingId: parsed.data.listingId };
+}
+
+export const actions: Actions = {
+	add: async (event) => {
+		const changed = await lineChange(event, 'add');
+		if ('refusal' in changed) return changed.refusal;
+		redirect(303, '/cart?added=1');
+	},
+	update: async (event) => {
+		const changed = await lineChange(event, 'set');
+		return 'refusal' in changed ? changed.refusal : { changed: changed.listingId };
 	},
 	remove: async (event) => {
 		const db = getDb();
