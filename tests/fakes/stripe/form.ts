@@ -24,7 +24,7 @@ export function keyPath(key: string): string[] {
 	while (rest.length > 0) {
 		const match = /^\[([^[\]]*)\]/.exec(rest);
 		if (!match) throw new FormBodyError(`Malformed key ${key}`);
-		parts.push(match[1]);
+		parts.push(match[1] ?? '');
 		rest = rest.slice(match[0].length);
 	}
 	if (parts.length > MAX_DEPTH) throw new FormBodyError(`Key ${key} is nested too deeply`);
@@ -51,7 +51,7 @@ function settle(tree: Tree): FormObject | FormValue[] {
 	if (keys.length > 0 && keys.every((key, index) => key === String(index))) return values;
 	const object: FormObject = {};
 	keys.forEach((key, index) => {
-		object[key] = values[index];
+		object[key] = values[index] as FormValue;
 	});
 	return object;
 }

@@ -1,0 +1,62 @@
+// The local Stripe stand-in for `npm start` and the browser tests (see
+// tests/fakes/stripe/server.ts for what it serves and its test controls).
+//
+//   node_modules/.bin/tsx tests/fakes/stripe-fake.ts
+//
+// env: STRIPE_FAKE_PORT (2595), STRIPE_WEBHOOK_URL (where events go), STRIPE_WEBHOOK_SECRET
+// (signs them), STRIPE_SECRET_KEY (the one key it accepts); it listens on 127.0.0.1 only.
+import { DEFAULT_API_KEY, DEFAULT_WEBHOOK_SECRET, startStripeFake } from './stripe/server';
+
+function portFrom(value: string | undefined, fallback: number): number {
+	if (value === undefined || value.trim() === '') return fallback;
+	const port = Number(value);
+	if (!Number.isInteger(port) || port < 0 || port > 65535) {
+		throw new RangeError(`STRIPE_FAKE_PORT must be a port number, got ${value}`);
+	}
+	return port;
+}
+
+const setting = (value: string | undefined) =>
+	value === undefined || value.trim() === '' ? undefined : value.trim();
+
+async function main(): Promise<void> {
+	const apiKey = setting(process.env.STRIPE_SECRET_KEY) ?? DEFAULT_API_KEY;
+	// The stand-in must never be handed a live key: it would only ever refuse it, and a
+	// live key belongs with the real service.
+	if (!apiKey.startsWith('sk_test_')) {
+		throw new Error('STRIPE_SECRET_KEY for the local stand-in must be a test key (sk_test_…)');
+	}
+	const webhookUrl = setting(process.env.STRIPE_WEBHOOK_URL);
+	const fake = await startStripeFake({
+		port: portFrom(process.env.STRIPE_FAKE_PORT, 2595),
+		apiKey,
+		webhookSecret: setting(process.env.STRIPE_WEBHOOK_SECRET) ?? DEFAULT_WEBHOOK_SECRET,
+		webhookUrl,
+		log: (line) => console.log(line)
+	});
+	console.log(
+		`[stripe-fake] API and pay pages on ${fake.url}; events to ${webhookUrl ?? '(no webhook URL set)'}`
+	);
+	let stopping = false;
+	const stop = (signal: string) => {
+		if (stopping) return;
+		stopping = true;
+		fake
+			.stop()
+			.then(() => {
+				console.log(`[stripe-fake] stopped (${signal})`);
+				process.exit(0);
+			})
+			.catch((error: Error) => {
+				console.error(`[stripe-fake] could not stop cleanly: ${error.message}`);
+				process.exit(1);
+			});
+	};
+	process.on('SIGINT', () => stop('SIGINT'));
+	process.on('SIGTERM', () => stop('SIGTERM'));
+}
+
+main().catch((error: Error) => {
+	console.error(`[stripe-fake] ${error.message}`);
+	process.exit(1);
+});
