@@ -6,12 +6,16 @@
 // Mail follows the customer's point of view: a held order that gets a date, a date
 // that moves, and a date that is lost each send one e-mail; a check that changes
 // nothing sends none, so running the daily job twice sends nothing twice.
+//
+// State changes go through `moveOrder` (server/orders/transitions.ts), which checks them
+// against the order state machine; a date moved within `scheduled` is a history note.
 import type { Kysely, Transaction } from 'kysely';
 import { addDays, formatShopDate, type IsoDate } from '$lib/format/dates';
 import { writeAudit, type Actor } from '$lib/server/audit';
 import { shopClock } from '$lib/server/backoffice/settings';
 import type { Database, OrderState, Pack, Service, ShopSetting } from '$lib/server/db/schema';
 import { queueMail } from '$lib/server/mail';
+import { moveOrder, noteOrder, type OrderActor } from '$lib/server/orders/transitions';
 import type { ForecastSource } from '$lib/server/weather/source';
 import { deliveryDateFor } from '$lib/shipping/calendar';
 import { overrideReasonProblem, overrideShipDateProblem } from '$lib/shipping/override';
@@ -31,7 +35,12 @@ export type CheckActor = { kind: 'system' | 'user'; userId?: string | null; ip?:
 export type ShipCheckMail = 'ship_date_set' | 'ship_date_lost';
 
 export type SkipReason =
-	'not_found' | 'not_checked_state' | 'nothing_live' | 'override_stands' | 'changed_meanwhile';
+	| 'not_found'
+	| 'not_checked_state'
+	| 'nothing_live'
+	| 'override_stands'
+	| 'changed_meanwhile'
+	| 'refused';
 
 export type OrderCheckOutcome =
 	| {
@@ -241,37 +250,54 @@ function mailFor(order: OrderRow, move: Move): ShipCheckMail | null {
 	return order.state === 'scheduled' && order.ship_on !== null ? 'ship_date_lost' : null;
 }
 
+/** The state machine refused a move; thrown inside the transaction so nothing is kept. */
+class MoveRefused extends Error {}
+
+type AuditOf = { action: string; detail: Record<string, unknown> };
+
 /**
- * Applies a move to a locked order: the row, an order_event (when `event.note` is given)
- * and the customer's mail. Returns the mail queued, if any.
+ * Applies a move to a locked order: a state change through `moveOrder` (with the
+ * caller's audit entry, when given), or a ship date moved in place with its history
+ * note (when `event.note` is given), then the customer's mail. Returns the mail
+ * queued, and whether the caller's audit entry has been written.
  */
 async function applyMove(
 	trx: Transaction<Database>,
 	order: OrderRow,
 	move: Move,
-	event: { note: string | null; actorKind: 'system' | 'user'; actorUserId: string | null }
-): Promise<ShipCheckMail | null> {
+	event: { note: string | null; actor: OrderActor; audit?: AuditOf }
+): Promise<{ mailed: ShipCheckMail | null; audited: boolean }> {
 	const changed = order.state !== move.to || order.ship_on !== move.shipOn;
-	if (changed) {
-		await trx
-			.updateTable('customer_order')
-			.set({ state: move.to, ship_on: move.shipOn, updated_at: new Date() })
-			.where('id', '=', order.id)
-			.execute();
+	let audited = false;
+	if (order.state !== move.to) {
+		const moved = await moveOrder(trx, order.id, move.to, event.actor, event.note ?? '', {
+			set: { ship_on: move.shipOn },
+			audit: event.audit,
+			expectFrom: order.state
+		});
+		if (!moved.ok) throw new MoveRefused(moved.problem);
+		audited = event.audit !== undefined;
+	} else {
+		if (changed) {
+			await trx
+				.updateTable('customer_order')
+				.set({ ship_on: move.shipOn, updated_at: new Date() })
+				.where('id', '=', order.id)
+				.execute();
+		}
+		if (event.note !== null) await noteOrder(trx, order.id, event.actor, event.note);
 	}
-	if (event.note !== null) {
-		await trx
-			.insertInto('order_event')
-			.values({
-				order_id: order.id,
-				from_state: order.state,
-				to_state: move.to,
-				actor_kind: event.actorKind,
-				actor_user_id: event.actorUserId,
-				note: event.note
-			})
-			.execute();
-	}
+	const mailed = await mailOf(trx, order, move, changed);
+	return { mailed, audited };
+}
+
+/** Queues the customer's mail for a move, if it calls for one. */
+async function mailOf(
+	trx: Transaction<Database>,
+	order: OrderRow,
+	move: Move,
+	changed: boolean
+): Promise<ShipCheckMail | null> {
 	const mail = changed ? mailFor(order, move) : null;
 	if (mail === 'ship_date_set' && move.shipOn && move.deliveryDate) {
 		await queueMail(trx, {
@@ -412,7 +438,11 @@ export async function checkOrder(
 	});
 	const result = shipCheck(input);
 
-	return db.transaction().execute(async (trx): Promise<OrderCheckOutcome> => {
+	const orderActor: OrderActor =
+		actor.kind === 'user'
+			? { kind: 'user', userId: actor.userId ?? '', ip: actor.ip ?? null }
+			: { kind: 'system' };
+	const checking = db.transaction().execute(async (trx): Promise<OrderCheckOutcome> => {
 		const locked = await readOrder(trx, orderId, true);
 		if (
 			!locked ||
@@ -455,26 +485,33 @@ export async function checkOrder(
 
 		const move = moveOf(result);
 		const moved = locked.state !== move.to || locked.ship_on !== move.shipOn;
-		const actorUserId = actor.kind === 'user' ? (actor.userId ?? null) : null;
-		const mailed = await applyMove(trx, locked, move, {
+		// A keeper's check is audited as such; the daily job's state changes get the
+		// state machine's own entry.
+		const audit: AuditOf | undefined =
+			actor.kind === 'user'
+				? {
+						action: 'ship_check.run',
+						detail: {
+							shipCheckId: inserted.id,
+							decision: result.decision,
+							shipDate: move.shipOn,
+							fromState: locked.state,
+							toState: move.to
+						}
+					}
+				: undefined;
+		const { mailed, audited } = await applyMove(trx, locked, move, {
 			note: checkEventNote(locked, result),
-			actorKind: actor.kind,
-			actorUserId
+			actor: orderActor,
+			audit
 		});
-		if (actor.kind === 'user') {
+		if (audit && !audited && orderActor.kind === 'user') {
 			await writeAudit(trx, {
-				actorUserId,
-				actorIp: actor.ip ?? null,
-				action: 'ship_check.run',
+				actorUserId: orderActor.userId,
+				actorIp: orderActor.ip,
 				entity: 'customer_order',
 				entityId: orderId,
-				detail: {
-					shipCheckId: inserted.id,
-					decision: result.decision,
-					shipDate: move.shipOn,
-					fromState: locked.state,
-					toState: move.to
-				}
+				...audit
 			});
 		}
 		return {
@@ -492,6 +529,12 @@ export async function checkOrder(
 			message: checkedMessage(locked, result, moved)
 		};
 	});
+	try {
+		return await checking;
+	} catch (error) {
+		if (!(error instanceof MoveRefused)) throw error;
+		return skipped(orderId, 'refused', error.message);
+	}
 }
 
 /**
@@ -570,7 +613,7 @@ export async function overrideShipCheck(
 	const today = options.today ?? (await shopClock(db)).today;
 	const settings = await settingsOf(db);
 
-	return db.transaction().execute(async (trx): Promise<OverrideOutcome> => {
+	const overriding = db.transaction().execute(async (trx): Promise<OverrideOutcome> => {
 		const order = await readOrder(trx, orderId, true);
 		if (!order) return { ok: false, field: '', problem: `There is no order #${orderId}.` };
 		const fromState = order.state;
@@ -641,17 +684,8 @@ export async function overrideShipCheck(
 			})
 			.returning('id')
 			.executeTakeFirstOrThrow();
-		const mailed = await applyMove(trx, order, move, {
-			note: reason,
-			actorKind: 'user',
-			actorUserId: actor.userId
-		});
-		await writeAudit(trx, {
-			actorUserId: actor.userId,
-			actorIp: actor.ip,
+		const audit: AuditOf = {
 			action: 'ship_check.override',
-			entity: 'customer_order',
-			entityId: orderId,
 			detail: {
 				shipCheckId: inserted.id,
 				decision: decision.decision,
@@ -662,7 +696,21 @@ export async function overrideShipCheck(
 				previousShipCheckId: previous?.id ?? null,
 				previousDecision: previous?.decision ?? null
 			}
+		};
+		const { mailed, audited } = await applyMove(trx, order, move, {
+			note: reason,
+			actor: { kind: 'user', userId: actor.userId, ip: actor.ip },
+			audit
 		});
+		if (!audited) {
+			await writeAudit(trx, {
+				actorUserId: actor.userId,
+				actorIp: actor.ip,
+				entity: 'customer_order',
+				entityId: orderId,
+				...audit
+			});
+		}
 		return {
 			ok: true,
 			shipCheckId: inserted.id,
@@ -672,4 +720,10 @@ export async function overrideShipCheck(
 			mailed
 		};
 	});
+	try {
+		return await overriding;
+	} catch (error) {
+		if (!(error instanceof MoveRefused)) throw error;
+		return { ok: false, field: '', problem: error.message };
+	}
 }
