@@ -37,6 +37,15 @@ load_env() {
 	# The local forecast fake's port; the app asks it unless WEATHER_API_URL names another service.
 	: "${WEATHER_FAKE_PORT:=2590}"
 	: "${WEATHER_API_URL:=http://127.0.0.1:$WEATHER_FAKE_PORT}"
+	# Payments: an .env from before payments talks to the local Stripe stand-in. A STRIPE_API_*
+	# line present but empty (as for real Stripe) means api.stripe.com, so only a missing line
+	# gets the stand-in's value, and a value set empty in the environment stays empty.
+	: "${STRIPE_FAKE_PORT:=2595}"
+	: "${STRIPE_SECRET_KEY:=sk_test_local_fake_hatchlot}" "${STRIPE_WEBHOOK_SECRET:=whsec_local_fake_hatchlot}"
+	if ! grep -q '^STRIPE_API_HOST=' .env; then : "${STRIPE_API_HOST=127.0.0.1}"; fi
+	if ! grep -q '^STRIPE_API_PORT=' .env; then : "${STRIPE_API_PORT=$STRIPE_FAKE_PORT}"; fi
+	if ! grep -q '^STRIPE_API_PROTOCOL=' .env; then : "${STRIPE_API_PROTOCOL=http}"; fi
+	: "${STRIPE_WEBHOOK_URL:=http://127.0.0.1:$PORT/api/stripe/webhook}"
 	# Photo uploads: adapter-node reads request bodies up to this size (its own default is 512K).
 	: "${BODY_SIZE_LIMIT:=64M}"
 	if [ -z "${AUTH_SECRET:-}" ]; then
@@ -48,6 +57,8 @@ load_env() {
 	: "${ORIGIN:=http://$HOST:$PORT}"
 	export AUTH_SECRET SMTP_URL MAIL_CATCHER_SMTP_PORT MAIL_CATCHER_HTTP_PORT BODY_SIZE_LIMIT
 	export WEATHER_FAKE_PORT WEATHER_API_URL
+	export STRIPE_FAKE_PORT STRIPE_SECRET_KEY STRIPE_WEBHOOK_SECRET STRIPE_WEBHOOK_URL
+	export STRIPE_API_HOST STRIPE_API_PORT STRIPE_API_PROTOCOL
 	export HOST PORT PG_PORT PG_USER PG_PASSWORD PG_DATABASE PG_TEST_DATABASE PG_MANAGED SHOP_TIME_ZONE DATABASE_URL ORIGIN
 }
 

@@ -6,7 +6,13 @@ source "$(dirname "${BASH_SOURCE[0]}")/lib.sh"
 load_env
 started_at=$(date +%s)
 
-for taken in "$PORT" "$MAIL_CATCHER_SMTP_PORT" "$MAIL_CATCHER_HTTP_PORT" "$WEATHER_FAKE_PORT"; do
+# The Stripe stand-in runs only while STRIPE_API_HOST points the app at one (empty = real Stripe).
+STRIPE_FAKE_WANTED=0
+[ -n "${STRIPE_API_HOST:-}" ] && STRIPE_FAKE_WANTED=1
+stripe_fake_port=()
+[ "$STRIPE_FAKE_WANTED" = "1" ] && stripe_fake_port=("$STRIPE_FAKE_PORT")
+
+for taken in "$PORT" "$MAIL_CATCHER_SMTP_PORT" "$MAIL_CATCHER_HTTP_PORT" "$WEATHER_FAKE_PORT" "${stripe_fake_port[@]}"; do
 	if port_in_use "$taken"; then
 		die "Port $taken on 127.0.0.1 is already taken (is Hatchlot running in another terminal?); stop that program or change the port in .env."
 	fi
@@ -59,6 +65,13 @@ say "starting the local forecast service on http://127.0.0.1:$WEATHER_FAKE_PORT 
 node_modules/.bin/tsx tests/fakes/weather-fake.ts &
 FAKE_PIDS+=($!)
 wait_for_port "$WEATHER_FAKE_PORT" "${FAKE_PIDS[-1]}" "the forecast fake"
+
+if [ "$STRIPE_FAKE_WANTED" = "1" ]; then
+	say "starting the local Stripe stand-in on http://127.0.0.1:$STRIPE_FAKE_PORT (events to $STRIPE_WEBHOOK_URL)…"
+	node_modules/.bin/tsx tests/fakes/stripe-fake.ts &
+	FAKE_PIDS+=($!)
+	wait_for_port "$STRIPE_FAKE_PORT" "${FAKE_PIDS[-1]}" "the Stripe stand-in"
+fi
 
 say "starting the app on http://$HOST:$PORT …"
 node build &

@@ -11,6 +11,11 @@ export const outboxApi = `http://127.0.0.1:${catcherHttp}`;
 // The e2e run's own forecast fake (its /test/* controls set places and failures).
 const weatherPort = 2591;
 export const weatherApi = `http://127.0.0.1:${weatherPort}`;
+// The e2e run's own Stripe stand-in (its /test/* controls pay, deliver and fail on demand).
+const stripePort = 2596;
+export const stripeApi = `http://127.0.0.1:${stripePort}`;
+export const stripeSecretKey = 'sk_test_local_fake_e2e';
+export const stripeWebhookSecret = 'whsec_local_fake_e2e';
 
 export default defineConfig({
 	testDir: '.',
@@ -67,6 +72,19 @@ export default defineConfig({
 			env: { WEATHER_FAKE_PORT: String(weatherPort) }
 		},
 		{
+			command: 'node_modules/.bin/tsx tests/fakes/stripe-fake.ts',
+			cwd: '../..',
+			url: `${stripeApi}/health`,
+			reuseExistingServer: false,
+			timeout: 30_000,
+			env: {
+				STRIPE_FAKE_PORT: String(stripePort),
+				STRIPE_SECRET_KEY: stripeSecretKey,
+				STRIPE_WEBHOOK_SECRET: stripeWebhookSecret,
+				STRIPE_WEBHOOK_URL: `${baseURL}/api/stripe/webhook`
+			}
+		},
+		{
 			command: 'node build',
 			cwd: '../..',
 			url: `${baseURL}/api/health`,
@@ -81,6 +99,11 @@ export default defineConfig({
 				SMTP_URL: `smtp://127.0.0.1:${catcherSmtp}`,
 				MAIL_CATCHER_URL: outboxApi,
 				WEATHER_API_URL: weatherApi,
+				STRIPE_SECRET_KEY: stripeSecretKey,
+				STRIPE_WEBHOOK_SECRET: stripeWebhookSecret,
+				STRIPE_API_HOST: '127.0.0.1',
+				STRIPE_API_PORT: String(stripePort),
+				STRIPE_API_PROTOCOL: 'http',
 				SHOP_TIME_ZONE: 'America/New_York'
 			}
 		}
