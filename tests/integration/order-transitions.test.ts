@@ -7,11 +7,30 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { DEMO_ACCOUNTS } from '../../seed/accounts';
 import { seedDemo } from '../../seed/demo';
 import type { Database, OrderState } from '../../src/lib/server/db/schema';
+import { addDays } from '../../src/lib/format/dates';
 import { moveOrder, type OrderActor } from '../../src/lib/server/orders/transitions';
+import { checkOrder, overrideShipCheck } from '../../src/lib/server/shipping/order-checks';
+import type { ForecastSource } from '../../src/lib/server/weather/source';
 import { scratchDatabase, type ScratchDatabase } from './support/databases';
 
 const system: OrderActor = { kind: 'system' };
 const webhook: OrderActor = { kind: 'webhook' };
+const DAY1 = '2026-12-01'; // a Tuesday (Python: datetime.date(2026, 12, 1).strftime('%A'))
+
+/** Mild days everywhere: inside every default limit (PRODUCT.md, Computations 1). */
+const mild: ForecastSource = {
+	async daily(_zip, days) {
+		return {
+			ok: true,
+			from: 'service',
+			days: Array.from({ length: days }, (_, i) => ({
+				date: addDays(DAY1, i),
+				lowF: 55,
+				highF: 70
+			}))
+		};
+	}
+};
 
 describe('moving orders between states', () => {
 	let scratch: ScratchDatabase;
@@ -250,6 +269,71 @@ describe('moving orders between states', () => {
 		}
 		expect(await eventsOf(id)).toHaveLength(1);
 		expect(await auditOf(id)).toHaveLength(1);
+	});
+
+	describe('ship checks, which move orders through the state machine', () => {
+		const shipChecks = async (id: number) =>
+			(
+				await sql<{
+					n: number;
+				}>`select count(*)::int as n from ship_check where order_id = ${id}`.execute(scratch.db)
+			).rows[0]!.n;
+
+		it('audits the daily job’s move as the state machine’s own entry', async () => {
+			const id = await placeOrder('paid');
+			const outcome = await checkOrder(scratch.db, mild, id, { kind: 'system' }, { today: DAY1 });
+			expect(outcome).toMatchObject({ outcome: 'checked', toState: 'scheduled', shipOn: DAY1 });
+			expect((await eventsOf(id)).map((event) => [event.from_state, event.to_state])).toEqual([
+				['paid', 'scheduled']
+			]);
+			const audit = await auditOf(id);
+			expect(audit.map((entry) => [entry.action, entry.actor_user_id])).toEqual([
+				['order.move', null]
+			]);
+			expect(audit[0]!.detail).toMatchObject({ actorKind: 'system', toState: 'scheduled' });
+		});
+
+		it('keeps one audit entry, the keeper’s own, for a keeper’s check that moves the order', async () => {
+			const id = await placeOrder('weather_hold');
+			const userId = keeper.kind === 'user' ? keeper.userId : '';
+			const outcome = await checkOrder(
+				scratch.db,
+				mild,
+				id,
+				{ kind: 'user', userId, ip: '192.0.2.21' },
+				{ today: DAY1 }
+			);
+			expect(outcome).toMatchObject({ outcome: 'checked', toState: 'scheduled' });
+			const audit = await auditOf(id);
+			expect(audit.map((entry) => [entry.action, entry.actor_user_id])).toEqual([
+				['ship_check.run', userId]
+			]);
+		});
+
+		it('refuses a check or an override from a customer’s account and keeps no ship check', async () => {
+			const id = await placeOrder('paid');
+			const userId = customer.kind === 'user' ? customer.userId : '';
+			const checked = await checkOrder(
+				scratch.db,
+				mild,
+				id,
+				{ kind: 'user', userId, ip: null },
+				{ today: DAY1 }
+			);
+			expect(checked).toMatchObject({ outcome: 'skipped', why: 'refused' });
+			const overridden = await overrideShipCheck(
+				scratch.db,
+				{ userId, ip: null },
+				id,
+				{ decision: 'hold', reason: 'Trying to hold my own order.' },
+				{ today: DAY1 }
+			);
+			expect(overridden).toMatchObject({ ok: false, field: '' });
+			expect(await shipChecks(id)).toBe(0);
+			expect((await orderRow(id)).state).toBe('paid');
+			expect(await eventsOf(id)).toEqual([]);
+			expect(await auditOf(id)).toEqual([]);
+		});
 	});
 
 	it('runs only inside the caller’s transaction', async () => {
