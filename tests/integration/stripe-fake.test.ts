@@ -522,6 +522,30 @@ describe('the local Stripe stand-in through the stripe package', () => {
 		]);
 	}, 15_000);
 
+	it('releases held events in an order given by id', async () => {
+		fake.hold();
+		const first = await createSession();
+		const second = await createSession();
+		await stripe.checkout.sessions.expire(first.id);
+		await stripe.checkout.sessions.expire(second.id);
+		const [one, two] = fake.events();
+		expect(await fake.release([two?.id as string, one?.id as string])).toEqual([two?.id, one?.id]);
+		expect(eventsOf().map((event) => (event.data.object as Stripe.Checkout.Session).id)).toEqual([
+			second.id,
+			first.id
+		]);
+	});
+
+	it('refuses an expires_at outside 30 minutes to 24 hours', async () => {
+		const now = Math.floor(Date.now() / 1000);
+		await expect(createSession({ expires_at: now + 600 })).rejects.toMatchObject({
+			statusCode: 400,
+			param: 'expires_at'
+		});
+		const soon = await createSession({ expires_at: now + 1900 });
+		expect(soon.expires_at).toBe(now + 1900);
+	});
+
 	it('answers 500 or hangs up in fail mode, as a Stripe outage looks to the client', async () => {
 		fake.setMode('fail');
 		await expect(createSession()).rejects.toMatchObject({
@@ -533,4 +557,60 @@ describe('the local Stripe stand-in through the stripe package', () => {
 		await control('/test/mode', { mode: 'ok' });
 		expect((await createSession()).status).toBe('open');
 	});
+
+	it('expires an open session by itself once its expires_at has passed', async () => {
+		let clock = new Date('2026-12-01T15:00:00Z');
+		const own = await startStripeFake({
+			port: 0,
+			apiKey: API_KEY,
+			webhookSecret: SECRET,
+			webhookUrl: receiver.url,
+			now: () => clock
+		});
+		try {
+			const address = new URL(own.url);
+			const client = new Stripe(API_KEY, {
+				host: address.hostname,
+				port: Number(address.port),
+				protocol: 'http',
+				maxNetworkRetries: 0
+			});
+			const session = await createSessionWith(client);
+			clock = new Date(clock.getTime() + 86_399_000);
+			await new Promise((resolve) => setTimeout(resolve, 1200));
+			expect((await client.checkout.sessions.retrieve(session.id)).status).toBe('open');
+			clock = new Date(clock.getTime() + 2000);
+			await waitFor(() => receiver.received.length === 1, 'the expired event');
+			const delivery = receiver.received[0];
+			const event = client.webhooks.constructEvent(
+				delivery?.raw ?? '',
+				delivery?.headers['stripe-signature'] as string,
+				SECRET,
+				300,
+				undefined,
+				clock.getTime()
+			);
+			expect(event.type).toBe('checkout.session.expired');
+			expect((await client.checkout.sessions.retrieve(session.id)).status).toBe('expired');
+		} finally {
+			await own.stop();
+		}
+	});
 });
+
+function createSessionWith(client: Stripe) {
+	return client.checkout.sessions.create({
+		mode: 'payment',
+		line_items: [
+			{
+				price_data: {
+					currency: 'usd',
+					unit_amount: 2500,
+					product_data: { name: 'Isopod culture' }
+				},
+				quantity: 1
+			}
+		],
+		success_url: 'http://127.0.0.1:3197/checkout/done?session={CHECKOUT_SESSION_ID}'
+	});
+}

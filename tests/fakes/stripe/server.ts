@@ -386,6 +386,8 @@ export async function startStripeFake(options: StripeFakeOptions): Promise<Strip
 	/** One delivery with its retries; the attempt numbers go on from earlier ones. */
 	async function deliverWithRetries(record: FakeEvent, delayMs: number): Promise<void> {
 		await sleep(delayMs);
+		// With nowhere to send it, the event is only kept (and listed under /test/events).
+		if (!webhookUrl) return;
 		for (let retry = 0; !stopped; retry++) {
 			if (await attempt(record, record.deliveries.length + 1)) return;
 			if (retry >= retryDelaysMs.length) return;
