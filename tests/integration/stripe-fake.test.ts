@@ -396,6 +396,12 @@ describe('the local Stripe stand-in through the stripe package', () => {
 			'checkout.session.async_payment_failed'
 		]);
 		expect((eventsOf()[1]?.data.object as Stripe.Checkout.Session).payment_status).toBe('unpaid');
+		// Its payment intent never succeeded, so there is nothing to refund.
+		const retrieved = await stripe.checkout.sessions.retrieve(session.id);
+		expect(retrieved).toMatchObject({ status: 'complete', payment_status: 'unpaid' });
+		await expect(
+			stripe.refunds.create({ payment_intent: retrieved.payment_intent as string })
+		).rejects.toMatchObject({ statusCode: 400, param: 'payment_intent' });
 	});
 
 	it('refunds part and the rest, refuses more than was captured, and reports a failed refund', async () => {
@@ -497,6 +503,11 @@ describe('the local Stripe stand-in through the stripe package', () => {
 		await control(`/test/events/${eventId}/deliver`, { delayMs: 300 });
 		await waitFor(() => receiver.received.length === 4, 'the late delivery');
 		expect((receiver.received[3]?.at ?? 0) - asked).toBeGreaterThanOrEqual(280);
+
+		// Ten at once, as a burst of retries can arrive at the shop.
+		await fake.redeliver(eventId, { times: 10, concurrent: true });
+		expect(receiver.received).toHaveLength(14);
+		expect(new Set(eventsOf().map((event) => event.id)).size).toBe(1);
 	});
 
 	it('holds events and releases them out of order', async () => {
