@@ -380,6 +380,11 @@ describe('the local Stripe stand-in through the stripe package', () => {
 		const [event] = eventsOf();
 		expect(event?.type).toBe('checkout.session.expired');
 		expect((event?.data.object as Stripe.Checkout.Session).id).toBe(session.id);
+		// The event names the API request that caused it.
+		expect(event?.request).toEqual({
+			id: expired.lastResponse.requestId,
+			idempotency_key: expect.stringMatching(/^stripe-node-retry-/)
+		});
 		await expect(stripe.checkout.sessions.expire(session.id)).rejects.toMatchObject({
 			statusCode: 400
 		});
@@ -455,7 +460,10 @@ describe('the local Stripe stand-in through the stripe package', () => {
 		await waitFor(() => receiver.received.length === 3, 'refund.updated');
 		expect(eventsOf()[2]).toMatchObject({
 			type: 'refund.updated',
-			data: { object: { id: rest.id } }
+			data: {
+				object: { id: rest.id, status: 'failed' },
+				previous_attributes: { status: 'succeeded' }
+			}
 		});
 		expect(await stripe.refunds.retrieve(rest.id)).toMatchObject({ status: 'failed' });
 

@@ -309,6 +309,8 @@ export async function startStripeFake(options: StripeFakeOptions): Promise<Strip
 	let held: string[] = [];
 	let baseUrl = '';
 	let stopped = false;
+	// The API request now running, named in the events it causes (`request` on an event).
+	let causing: { id: string; idempotency_key: string | null } | null = null;
 
 	const sessions = new Map<string, SessionRecord>();
 	const paymentIntents = new Map<string, Json>();
@@ -395,16 +397,18 @@ export async function startStripeFake(options: StripeFakeOptions): Promise<Strip
 		}
 	}
 
-	function emit(type: string, object: Json): FakeEvent {
+	function emit(type: string, object: Json, previous?: Json): FakeEvent {
 		const event: Json = {
 			id: stripeId('evt_'),
 			object: 'event',
 			api_version: FAKE_API_VERSION,
 			created: seconds(),
-			data: { object: snapshot(object) },
+			data: previous
+				? { object: snapshot(object), previous_attributes: previous }
+				: { object: snapshot(object) },
 			livemode: false,
 			pending_webhooks: webhookUrl ? 1 : 0,
-			request: { id: null, idempotency_key: null },
+			request: causing ? { ...causing } : { id: null, idempotency_key: null },
 			type
 		};
 		const record: FakeEvent = { id: event.id as string, type, event, deliveries: [] };
@@ -793,7 +797,7 @@ export async function startStripeFake(options: StripeFakeOptions): Promise<Strip
 			charge.amount_refunded = (charge.amount_refunded as number) - (refund.amount as number);
 			charge.refunded = false;
 		}
-		emit('refund.updated', refund);
+		emit('refund.updated', refund, { status: 'succeeded', failure_reason: null });
 		return snapshot(refund);
 	}
 
@@ -975,11 +979,19 @@ export async function startStripeFake(options: StripeFakeOptions): Promise<Strip
 				}
 				if (earlier) return answer(earlier.status, earlier.body, { 'idempotent-replayed': 'true' });
 			}
-			const [status, body] = api(method, url.pathname, params);
+			const requestId = stripeId('req_');
+			causing = { id: requestId, idempotency_key: idempotencyKey };
+			let outcome: [number, unknown];
+			try {
+				outcome = api(method, url.pathname, params);
+			} finally {
+				causing = null;
+			}
+			const [status, body] = outcome;
 			// Only answers from an endpoint that ran to success are kept for replay.
 			if (idempotencyKey)
 				idempotent.set(idempotencyKey, { fingerprint, status, body: snapshot(body) });
-			return answer(status, body);
+			return answer(status, body, { 'request-id': requestId });
 		} catch (error) {
 			if (error instanceof StripeApiError) return answer(error.status, { error: error.body });
 			if (error instanceof FormBodyError) {
