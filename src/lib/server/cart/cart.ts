@@ -267,7 +267,7 @@ export function lineProblem(row: {
 }
 
 /** Fees per service and the hold time from the settings row (the schema's defaults before it exists). */
-async function cartSettings(
+export async function cartSettings(
 	db: Db
 ): Promise<{ fees: Record<Service, number>; holdMinutes: number }> {
 	const row = await db
@@ -578,100 +578,7 @@ export async function holdCart(
 	const minutes = (await cartSettings(db)).holdMinutes;
 	const result = await db
 		.transaction()
-		.execute(async (trx) => {
-			await trx.selectFrom('cart').select('id').where('id', '=', cartId).forUpdate().execute();
-			await releaseHolds(trx, [cartId]);
-			const lines = await trx
-				.selectFrom('cart_line')
-				.innerJoin('listing', 'listing.id', 'cart_line.listing_id')
-				.select(['cart_line.listing_id', 'cart_line.quantity', 'listing.clutch_id', 'listing.kind'])
-				.where('cart_line.cart_id', '=', cartId)
-				.orderBy('cart_line.listing_id')
-				.execute();
-			if (lines.length === 0)
-				return { ok: false as const, problem: 'Your cart is empty.', lines: [] };
-			const clutchIds = [
-				...new Set(lines.flatMap((l) => (l.clutch_id === null ? [] : [l.clutch_id])))
-			];
-			const supplyIds = lines.filter((l) => l.kind === 'supply').map((l) => l.listing_id);
-			// Lock order: clutches, then supply listings, each by id — the same in every hold.
-			if (clutchIds.length)
-				await trx
-					.selectFrom('clutch')
-					.select('id')
-					.where('id', 'in', clutchIds)
-					.orderBy('id')
-					.forUpdate()
-					.execute();
-			if (supplyIds.length)
-				await trx
-					.selectFrom('listing')
-					.select('id')
-					.where('id', 'in', supplyIds)
-					.orderBy('id')
-					.forUpdate()
-					.execute();
-			// A fresh statement after the locks: it sees every hold committed before them.
-			const problems: Array<{ listingId: number; problem: string; available: number }> = [];
-			for (const line of lines) {
-				const listing = await sellable(trx, line.listing_id);
-				const available = listing?.on_offer ?? 0;
-				const problem = listing
-					? lineProblem({
-							quantity: line.quantity,
-							listing_state: listing.state,
-							kind: listing.kind,
-							clutch_state: listing.clutch_state,
-							available,
-							hasTiers: listing.tiers > 0
-						})
-					: { kind: 'gone' as const, text: 'This listing has been taken off sale.' };
-				if (problem) {
-					problems.push({
-						listingId: line.listing_id,
-						problem:
-							problem.kind === 'short'
-								? `Only ${available} left now; lower the quantity to hold them.`
-								: problem.text,
-						available
-					});
-					continue;
-				}
-				// Each insert is its own statement, so a later line of the same clutch sees this one.
-				await trx
-					.insertInto('reservation')
-					.values({
-						cart_id: cartId,
-						listing_id: line.listing_id,
-						quantity: line.quantity,
-						state: 'held',
-						expires_at: sql<Date>`now() + make_interval(mins => ${minutes})`
-					})
-					.execute();
-			}
-			if (problems.length > 0) {
-				// All or nothing: the transaction rolls back every hold made above.
-				throw new HoldRefused(problems);
-			}
-			const held = await trx
-				.selectFrom('reservation')
-				.select((eb) => eb.fn.min('expires_at').as('until'))
-				.where('cart_id', '=', cartId)
-				.where('state', '=', 'held')
-				.executeTakeFirstOrThrow();
-			await writeAudit(trx, {
-				actorUserId: owner.userId,
-				actorIp: clientIp,
-				action: 'cart.hold',
-				entity: 'cart',
-				entityId: cartId,
-				detail: {
-					lines: lines.map((l) => ({ listingId: l.listing_id, quantity: l.quantity })),
-					minutes
-				}
-			});
-			return { ok: true as const, heldUntil: new Date(held.until as Date) };
-		})
+		.execute((trx) => holdCartIn(trx, cartId, owner, clientIp, minutes))
 		.catch((failure: unknown) => {
 			if (failure instanceof HoldRefused)
 				return { ok: false as const, problem: failure.message, lines: failure.lines };
@@ -681,7 +588,110 @@ export async function holdCart(
 	return result.ok ? { ...result, cart } : { ...result, cart };
 }
 
-class HoldRefused extends Error {
+/**
+ * The hold itself, in the caller's transaction (checkout holds and makes its order in
+ * one): locks the cart, then the clutches and supply listings, and holds every line or
+ * throws HoldRefused, which rolls back the caller's whole transaction.
+ */
+export async function holdCartIn(
+	trx: Db,
+	cartId: string,
+	owner: CartOwner,
+	clientIp: string | null,
+	minutes: number
+): Promise<{ ok: true; heldUntil: Date } | { ok: false; problem: string; lines: [] }> {
+	await trx.selectFrom('cart').select('id').where('id', '=', cartId).forUpdate().execute();
+	await releaseHolds(trx, [cartId]);
+	const lines = await trx
+		.selectFrom('cart_line')
+		.innerJoin('listing', 'listing.id', 'cart_line.listing_id')
+		.select(['cart_line.listing_id', 'cart_line.quantity', 'listing.clutch_id', 'listing.kind'])
+		.where('cart_line.cart_id', '=', cartId)
+		.orderBy('cart_line.listing_id')
+		.execute();
+	if (lines.length === 0) return { ok: false as const, problem: 'Your cart is empty.', lines: [] };
+	const clutchIds = [...new Set(lines.flatMap((l) => (l.clutch_id === null ? [] : [l.clutch_id])))];
+	const supplyIds = lines.filter((l) => l.kind === 'supply').map((l) => l.listing_id);
+	// Lock order: clutches, then supply listings, each by id — the same in every hold.
+	if (clutchIds.length)
+		await trx
+			.selectFrom('clutch')
+			.select('id')
+			.where('id', 'in', clutchIds)
+			.orderBy('id')
+			.forUpdate()
+			.execute();
+	if (supplyIds.length)
+		await trx
+			.selectFrom('listing')
+			.select('id')
+			.where('id', 'in', supplyIds)
+			.orderBy('id')
+			.forUpdate()
+			.execute();
+	// A fresh statement after the locks: it sees every hold committed before them.
+	const problems: Array<{ listingId: number; problem: string; available: number }> = [];
+	for (const line of lines) {
+		const listing = await sellable(trx, line.listing_id);
+		const available = listing?.on_offer ?? 0;
+		const problem = listing
+			? lineProblem({
+					quantity: line.quantity,
+					listing_state: listing.state,
+					kind: listing.kind,
+					clutch_state: listing.clutch_state,
+					available,
+					hasTiers: listing.tiers > 0
+				})
+			: { kind: 'gone' as const, text: 'This listing has been taken off sale.' };
+		if (problem) {
+			problems.push({
+				listingId: line.listing_id,
+				problem:
+					problem.kind === 'short'
+						? `Only ${available} left now; lower the quantity to hold them.`
+						: problem.text,
+				available
+			});
+			continue;
+		}
+		// Each insert is its own statement, so a later line of the same clutch sees this one.
+		await trx
+			.insertInto('reservation')
+			.values({
+				cart_id: cartId,
+				listing_id: line.listing_id,
+				quantity: line.quantity,
+				state: 'held',
+				expires_at: sql<Date>`now() + make_interval(mins => ${minutes})`
+			})
+			.execute();
+	}
+	if (problems.length > 0) {
+		// All or nothing: the transaction rolls back every hold made above.
+		throw new HoldRefused(problems);
+	}
+	const held = await trx
+		.selectFrom('reservation')
+		.select((eb) => eb.fn.min('expires_at').as('until'))
+		.where('cart_id', '=', cartId)
+		.where('state', '=', 'held')
+		.executeTakeFirstOrThrow();
+	await writeAudit(trx, {
+		actorUserId: owner.userId,
+		actorIp: clientIp,
+		action: 'cart.hold',
+		entity: 'cart',
+		entityId: cartId,
+		detail: {
+			lines: lines.map((l) => ({ listingId: l.listing_id, quantity: l.quantity })),
+			minutes
+		}
+	});
+	return { ok: true as const, heldUntil: new Date(held.until as Date) };
+}
+
+export class HoldRefused extends Error {
 	constructor(readonly lines: Array<{ listingId: number; problem: string; available: number }>) {
 		super(
 			lines.length === 1

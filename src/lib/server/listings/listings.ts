@@ -245,6 +245,9 @@ async function freeAnimalsOf(db: Db, clutchId: number): Promise<number> {
 	return Number(row.free);
 }
 
+/** The shop itself (a paid order closing a clutch from a payment event): no user behind it. */
+export type ShopActor = { userId: null; ip: null };
+
 async function shopToday(db: Db, today?: IsoDate): Promise<IsoDate> {
 	return today ?? todayInZone(await resolveShopTimeZone(db));
 }
@@ -253,7 +256,7 @@ async function shopToday(db: Db, today?: IsoDate): Promise<IsoDate> {
 
 async function auditListing(
 	trx: Db,
-	actor: Actor,
+	actor: Actor | ShopActor,
 	action: string,
 	row: Pick<Listing, 'id' | 'slug'>,
 	detail: Record<string, unknown>
@@ -275,7 +278,7 @@ async function auditListing(
  */
 async function moveClutchState(
 	trx: Db,
-	actor: Actor,
+	actor: Actor | ShopActor,
 	clutch: Clutch,
 	to: ClutchState,
 	reason: string,
@@ -344,7 +347,7 @@ export interface SoldOutSync {
 export async function syncClutchSoldOut(
 	trx: Db,
 	clutchId: number,
-	actor: Actor,
+	actor: Actor | ShopActor,
 	today?: IsoDate
 ): Promise<SoldOutSync> {
 	const clutch = await lockClutch(trx, clutchId, 'update');

@@ -36,7 +36,8 @@ const kindLabels: Record<MailKind, string> = {
 	ship_date_set: 'Ship date set',
 	ship_date_lost: 'Ship date withdrawn',
 	waitlist_confirm: 'Waitlist confirmation',
-	waitlist_ready: 'Waitlist: species ready'
+	waitlist_ready: 'Waitlist: species ready',
+	order_receipt: 'Order receipt'
 };
 
 export function mailKindLabel(kind: string): string {

@@ -60,6 +60,19 @@ const oneOfEach: MailMessage[] = [
 		priceFromCents: 2450,
 		listingUrl: 'https://shop.example.com/listings/orthoporus-ornatus-sub-adult',
 		leaveUrl: 'https://shop.example.com/waitlist/leave/7.abc'
+	},
+	{
+		kind: 'order_receipt',
+		to: 'ada@example.com',
+		name: 'Ada',
+		orderNumber: 'HL-10013',
+		service: 'overnight',
+		lines: [{ description: 'Rubber ducky isopods, juvenile', quantity: 3, lineTotalCents: 5400 }],
+		subtotalCents: 5400,
+		shippingCents: 4500,
+		totalCents: 9900,
+		hasLive: true,
+		orderUrl: 'https://shop.example.com/checkout/done?session_id=cs_test_1'
 	}
 ];
 
@@ -307,5 +320,19 @@ describe('helpers', () => {
 		expect(formatLifetime(4320)).toBe('3 days');
 		expect(() => formatLifetime(0)).toThrow(RangeError);
 		expect(() => formatLifetime(2.5)).toThrow(RangeError);
+	});
+});
+
+describe('order receipt', () => {
+	it('lists the lines and the total, with the live-arrival terms and the care-sheet note', () => {
+		const receipt = oneOfEach.find((message) => message.kind === 'order_receipt')!;
+		const mail = renderMail(receipt, shop);
+		// 9900 cents is $99.00: USD has two minor units (ISO 4217).
+		expect(mail.subject).toBe('Receipt for your Mossback Hollow Inverts order HL-10013: $99.00');
+		expect(mail.text).toContain('3 × Rubber ducky isopods, juvenile: $54.00');
+		expect(mail.text).toContain('total paid $99.00');
+		expect(mail.text).toContain('live-arrival guarantee');
+		expect(mail.text).toContain("Your state's rules");
+		expect(mail.text).toContain('Care sheet.');
 	});
 });

@@ -78,6 +78,20 @@ export type MailMessage =
 			priceFromCents: number;
 			listingUrl: string;
 			leaveUrl: string;
+	  }
+	/** The receipt of a paid order: what was bought and paid, and the terms that go with it. */
+	| {
+			kind: 'order_receipt';
+			to: string;
+			name: string | null;
+			orderNumber: string;
+			service: 'overnight' | 'two_day';
+			lines: { description: string; quantity: number; lineTotalCents: number }[];
+			subtotalCents: number;
+			shippingCents: number;
+			totalCents: number;
+			hasLive: boolean;
+			orderUrl: string;
 	  };
 
 export type MailKind = MailMessage['kind'];
@@ -91,7 +105,8 @@ export const MAIL_KINDS = [
 	'ship_date_set',
 	'ship_date_lost',
 	'waitlist_confirm',
-	'waitlist_ready'
+	'waitlist_ready',
+	'order_receipt'
 ] as const satisfies readonly MailKind[];
 
 export interface RenderedMail {
@@ -579,6 +594,46 @@ export function renderMail(message: MailMessage, shop: MailShop): RenderedMail {
 						]
 					],
 					footnote: `${sentTo} You get it because this address joined the waitlist for ${species}.`
+				},
+				shopName
+			);
+		}
+		case 'order_receipt': {
+			const order = oneLine(message.orderNumber);
+			const total = formatCents(message.totalCents);
+			const lines: Paragraph[] = message.lines.map((line) => [
+				`${line.quantity} × ${oneLine(line.description)}: `,
+				{ strong: formatCents(line.lineTotalCents) }
+			]);
+			const live: Paragraph[] = message.hasLive
+				? [
+						...arrivalAndStateParagraphs(),
+						[
+							{ strong: 'Care sheet.' },
+							' The care sheet for each species is on its page in the shop; please read it and set up the enclosure before the box arrives.'
+						]
+					]
+				: [];
+			return renderLetter(
+				{
+					subject: `Receipt for your ${shopName} order ${order}: ${total}`,
+					preview: `We have your payment of ${total}. The ship date follows the forecast.`,
+					greeting: hello(message.name),
+					before: [
+						['Thank you: we have your payment for order ', { strong: order }, '.'],
+						...lines,
+						[
+							`Subtotal ${formatCents(message.subtotalCents)}, ${SERVICE_WORDS[message.service]} shipping ${formatCents(message.shippingCents)}, `,
+							{ strong: `total paid ${total}` },
+							'.'
+						],
+						[
+							'Live animals ship only on a day the forecast on the route is safe; we e-mail you the ship date as soon as it is set.'
+						]
+					],
+					button: { label: 'See your order', url: checkedLink(message.orderUrl) },
+					after: live,
+					footnote: `${sentTo} You get it because you paid for this order.`
 				},
 				shopName
 			);
