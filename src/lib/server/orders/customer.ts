@@ -2,6 +2,8 @@
 // somebody else's order number finds nothing (and the page answers 404).
 import type { Kysely } from 'kysely';
 import type { Database } from '../db/schema';
+import { customerActorWords } from '$lib/orders/timeline';
+import { latestShipCheck, orderTimeline } from './history';
 
 export async function listOwnOrders(db: Kysely<Database>, userId: string) {
 	return db
@@ -40,21 +42,25 @@ export async function ownOrder(db: Kysely<Database>, userId: string, orderNumber
 		.where('user_id', '=', userId)
 		.executeTakeFirst();
 	if (!order) return null;
-	const [lines, events] = await Promise.all([
+	const [lines, events, shipCheck] = await Promise.all([
 		db
 			.selectFrom('order_line')
 			.select(['id', 'description', 'quantity', 'unit_size', 'line_total_cents', 'is_live'])
 			.where('order_id', '=', order.id)
 			.orderBy('id')
 			.execute(),
-		db
-			.selectFrom('order_event')
-			.select(['id', 'to_state', 'note', 'created_at'])
-			.where('order_id', '=', order.id)
-			.orderBy('created_at')
-			.orderBy('id')
-			.execute()
+		orderTimeline(db, order.id),
+		latestShipCheck(db, order.id)
 	]);
 	const { id: _id, ...visible } = order;
-	return { ...visible, lines, events };
+	// Staff names and e-mails stay on the server: the customer reads "the shop", "payment", "you".
+	const history = events.map((event) => ({
+		id: event.id,
+		fromState: event.fromState,
+		toState: event.toState,
+		by: customerActorWords(event, userId),
+		note: event.note,
+		at: event.at
+	}));
+	return { ...visible, lines, events: history, shipCheck };
 }

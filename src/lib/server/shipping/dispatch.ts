@@ -37,7 +37,7 @@ export interface DispatchBoard {
 const BOARD_STATES = ['paid', 'scheduled', 'weather_hold'] as const;
 
 /** jsonb arrives parsed; anything not shaped like a reason is dropped rather than shown. */
-function asReasons(value: unknown): Reason[] {
+export function asReasons(value: unknown): Reason[] {
 	if (!Array.isArray(value)) return [];
 	return value.filter(
 		(item): item is Reason =>
