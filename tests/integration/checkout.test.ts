@@ -287,6 +287,12 @@ describe('checkout and the Stripe webhook', () => {
 		expect(toPaid).toHaveLength(1);
 		expect(await receipts(order.order_number)).toBe(1);
 		expect(await holdsOf(started.orderId)).toEqual([{ state: 'converted', quantity: 3 }]);
+		const cartLeft = await db
+			.selectFrom('cart_line')
+			.select('id')
+			.where('cart_id', '=', owner.guestCartId!)
+			.execute();
+		expect(cartLeft).toHaveLength(0);
 		const payment = await db
 			.selectFrom('payment')
 			.selectAll()

@@ -26,9 +26,14 @@ export const checkoutSchema = z.object({
 		.trim()
 		.regex(/^\d{5}$/, 'A US ZIP code has five digits.'),
 	service: z.enum(['overnight', 'two_day']).default('overnight'),
-	terms: z.literal(true, {
-		error: "Tick this once you have read the live-arrival terms and checked your state's rules."
-	})
+	// A boolean (false until ticked), never pre-ticked: the buyer's own word is what counts.
+	terms: z
+		.boolean()
+		.default(false)
+		.refine(
+			(ticked) => ticked,
+			"Tick this once you have read the live-arrival terms and checked your state's rules."
+		)
 });
 
 export type CheckoutForm = z.infer<typeof checkoutSchema>;

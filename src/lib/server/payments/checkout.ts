@@ -371,16 +371,27 @@ async function createSession(
 			customer_email: order.email,
 			client_reference_id: order.order_number,
 			metadata: { order_id: String(order.id), order_number: order.order_number },
-			// A tier price need not divide evenly by the count, so each line is one item at its total.
+			// A tier price need not divide evenly by the count: such a line is one item at its total.
 			line_items: [
-				...lines.map((line) => ({
-					quantity: 1,
-					price_data: {
-						currency: 'usd',
-						unit_amount: line.line_total_cents,
-						product_data: { name: `${line.description} × ${line.quantity}` }
-					}
-				})),
+				...lines.map((line) =>
+					line.line_total_cents % line.quantity === 0
+						? {
+								quantity: line.quantity,
+								price_data: {
+									currency: 'usd',
+									unit_amount: line.line_total_cents / line.quantity,
+									product_data: { name: line.description }
+								}
+							}
+						: {
+								quantity: 1,
+								price_data: {
+									currency: 'usd',
+									unit_amount: line.line_total_cents,
+									product_data: { name: `${line.quantity} × ${line.description}` }
+								}
+							}
+				),
 				{
 					quantity: 1,
 					price_data: {

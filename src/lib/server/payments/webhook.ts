@@ -203,6 +203,25 @@ async function completed(
 		.where('order_id', '=', order.id)
 		.where('state', '=', 'held')
 		.execute();
+	// What was bought leaves the buyer's cart; anything added since stays there.
+	const carts = await trx
+		.selectFrom('reservation')
+		.select('cart_id')
+		.distinct()
+		.where('order_id', '=', order.id)
+		.where('cart_id', 'is not', null)
+		.execute();
+	const cartIds = carts.flatMap((c) => (c.cart_id ? [c.cart_id] : []));
+	if (cartIds.length)
+		await trx
+			.deleteFrom('cart_line')
+			.where('cart_id', 'in', cartIds)
+			.where(
+				'listing_id',
+				'in',
+				lines.map((l) => l.listing_id)
+			)
+			.execute();
 	// A supply's shelf count is what is left to sell; an animal's comes from the clutch.
 	for (const line of lines.filter((l) => l.kind === 'supply'))
 		await trx
