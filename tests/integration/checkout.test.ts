@@ -274,6 +274,10 @@ describe('checkout and the Stripe webhook', () => {
 		expect(event).toBeDefined();
 		await fake.redeliver(event!.id, { times: 10, concurrent: true });
 		await fake.idle();
+		// Every repeat is acknowledged: Stripe would otherwise keep retrying it.
+		const attempts = fake.events().find((e) => e.id === event!.id)!.deliveries;
+		expect(attempts.length).toBeGreaterThanOrEqual(11);
+		expect(attempts.every((a) => a.status === 200)).toBe(true);
 
 		const order = await orderOf(started.orderId);
 		expect(order.state).toBe('paid');
@@ -415,6 +419,32 @@ describe('checkout and the Stripe webhook', () => {
 			.where('order_id', '=', started.orderId)
 			.executeTakeFirstOrThrow();
 		expect(payment.status).toBe('expired');
+	});
+
+	it('lets the stock go when a delayed payment fails, after the unpaid completion changed nothing', async () => {
+		const { listingId } = await listedClutch(3);
+		const owner = await cartWith(listingId, 3);
+		const started = await checkout(owner);
+		if (!started.ok) throw new Error(started.problem);
+		fake.failAsyncPayment(started.sessionId);
+		await fake.idle();
+		const types = fake
+			.events()
+			.filter(
+				(e) =>
+					(e.event as { data: { object: { id: string } } }).data.object.id === started.sessionId
+			)
+			.map((e) => e.type);
+		expect(types).toContain('checkout.session.async_payment_failed');
+		expect((await orderOf(started.orderId)).state).toBe('cancelled');
+		expect(await holdsOf(started.orderId)).toEqual([{ state: 'released', quantity: 3 }]);
+		expect(await onOfferOf(db, listingId)).toBe(3);
+		const payment = await db
+			.selectFrom('payment')
+			.select('status')
+			.where('order_id', '=', started.orderId)
+			.executeTakeFirstOrThrow();
+		expect(payment.status).toBe('failed');
 	});
 
 	it('refunds a payment that arrives after its hold expired and the stock was sold', async () => {
