@@ -229,6 +229,28 @@ describe('checkout and the Stripe webhook', () => {
 		expect(holds).toEqual([{ state: 'held', quantity: 3 }]);
 	});
 
+	it('replaces an order whose holds ran out, closing its session, so one cart never has two to pay', async () => {
+		const { listingId } = await listedClutch(6);
+		const owner = await cartWith(listingId, 2);
+		const first = await checkout(owner);
+		if (!first.ok) throw new Error(first.problem);
+		// The hold ran out and the sweep let it go.
+		await db
+			.updateTable('reservation')
+			.set({ state: 'released', expires_at: sql`now() - interval '1 minute'` })
+			.where('order_id', '=', first.orderId)
+			.execute();
+		const second = await checkout(owner);
+		if (!second.ok) throw new Error(second.problem);
+		expect(second.orderId).not.toBe(first.orderId);
+		expect(second.sessionId).not.toBe(first.sessionId);
+		expect((await orderOf(first.orderId)).state).toBe('cancelled');
+		expect((await stripe.checkout.sessions.retrieve(first.sessionId)).status).toBe('expired');
+		expect(await holdsOf(second.orderId)).toEqual([{ state: 'held', quantity: 2 }]);
+		await fake.idle();
+		expect((await orderOf(second.orderId)).state).toBe('awaiting_payment');
+	});
+
 	it('refuses a ZIP that does not exist, is in another state, or is outside the shipping area', async () => {
 		const { listingId } = await listedClutch(5);
 		const owner = await cartWith(listingId, 1);

@@ -75,7 +75,11 @@ interface OpenOrder {
 	ship_name: string;
 }
 
-/** The order this cart's held stock is tied to and that still waits for payment, if any. */
+/**
+ * The order this cart last started that still waits for payment, if any, whether or not
+ * its holds have run out: an old one is cancelled before a new one starts, so a buyer
+ * never has two payable sessions for one cart.
+ */
 async function openOrderOf(trx: Trx, cartId: string): Promise<OpenOrder | undefined> {
 	return trx
 		.selectFrom('customer_order')
@@ -99,7 +103,6 @@ async function openOrderOf(trx: Trx, cartId: string): Promise<OpenOrder | undefi
 					.select('reservation.id')
 					.whereRef('reservation.order_id', '=', 'customer_order.id')
 					.where('reservation.cart_id', '=', cartId)
-					.where('reservation.state', '=', 'held')
 			)
 		)
 		.orderBy('id', 'desc')
