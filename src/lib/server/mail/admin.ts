@@ -37,7 +37,9 @@ const kindLabels: Record<MailKind, string> = {
 	ship_date_lost: 'Ship date withdrawn',
 	waitlist_confirm: 'Waitlist confirmation',
 	waitlist_ready: 'Waitlist: species ready',
-	order_receipt: 'Order receipt'
+	order_receipt: 'Order receipt',
+	refund_issued: 'Refund sent',
+	refund_failed: 'Refund failed (admins)'
 };
 
 export function mailKindLabel(kind: string): string {

@@ -73,6 +73,24 @@ const oneOfEach: MailMessage[] = [
 		totalCents: 9900,
 		hasLive: true,
 		orderUrl: 'https://shop.example.com/checkout/done?session_id=cs_test_1'
+	},
+	{
+		kind: 'refund_issued',
+		to: 'ada@example.com',
+		name: 'Ada',
+		orderNumber: 'HL-10013',
+		amountCents: 1800,
+		remainingCents: 8100,
+		reason: 'One juvenile arrived dead.',
+		lines: [{ description: 'Rubber ducky isopods, juvenile', quantity: 1 }]
+	},
+	{
+		kind: 'refund_failed',
+		to: 'wren@mossback.example.com',
+		orderNumber: 'HL-10013',
+		amountCents: 1800,
+		stripeRefundId: 're_test_1',
+		orderUrl: 'https://shop.example.com/manage/orders/HL-10013'
 	}
 ];
 

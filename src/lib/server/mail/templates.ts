@@ -92,6 +92,27 @@ export type MailMessage =
 			totalCents: number;
 			hasLive: boolean;
 			orderUrl: string;
+	  }
+	/** Money went back to the buyer's card: all of it, or part with what it was for. */
+	| {
+			kind: 'refund_issued';
+			to: string;
+			name: string | null;
+			orderNumber: string;
+			amountCents: number;
+			/** What is left paid on the order after this refund; 0 when it is refunded in full. */
+			remainingCents: number;
+			reason: string;
+			lines: { description: string; quantity: number }[];
+	  }
+	/** To the shop's admins: a refund the card network turned back; the amount counts as held again. */
+	| {
+			kind: 'refund_failed';
+			to: string;
+			orderNumber: string;
+			amountCents: number;
+			stripeRefundId: string;
+			orderUrl: string;
 	  };
 
 export type MailKind = MailMessage['kind'];
@@ -106,7 +127,9 @@ export const MAIL_KINDS = [
 	'ship_date_lost',
 	'waitlist_confirm',
 	'waitlist_ready',
-	'order_receipt'
+	'order_receipt',
+	'refund_issued',
+	'refund_failed'
 ] as const satisfies readonly MailKind[];
 
 export interface RenderedMail {
@@ -634,6 +657,69 @@ export function renderMail(message: MailMessage, shop: MailShop): RenderedMail {
 					button: { label: 'See your order', url: checkedLink(message.orderUrl) },
 					after: live,
 					footnote: `${sentTo} You get it because you paid for this order.`
+				},
+				shopName
+			);
+		}
+		case 'refund_issued': {
+			const order = oneLine(message.orderNumber);
+			const amount = formatCents(message.amountCents);
+			const lines: Paragraph[] = message.lines.map((line) => [
+				`${line.quantity} × ${oneLine(line.description)}`
+			]);
+			return renderLetter(
+				{
+					subject: `${shopName} sent back ${amount} for order ${order}`,
+					preview: `${amount} is on its way back to the card you paid with.`,
+					greeting: hello(message.name),
+					before: [
+						[
+							'We have sent ',
+							{ strong: amount },
+							' back to the card you paid order ',
+							{ strong: order },
+							' with.'
+						],
+						['What it is for: ', oneLine(message.reason)],
+						...lines,
+						message.remainingCents > 0
+							? [`The rest of the order stands: ${formatCents(message.remainingCents)} stays paid.`]
+							: ['That is everything you paid for this order.'],
+						[
+							'Card issuers usually take five to ten business days to show a refund on the statement; the date depends on your bank, not on us.'
+						]
+					],
+					after: [],
+					footnote: `${sentTo} You get it because you paid for this order.`
+				},
+				shopName
+			);
+		}
+		case 'refund_failed': {
+			const order = oneLine(message.orderNumber);
+			const amount = formatCents(message.amountCents);
+			return renderLetter(
+				{
+					subject: `${shopName}: refund of ${amount} on ${order} did not go through`,
+					preview: `Stripe reports refund ${oneLine(message.stripeRefundId)} failed; the amount counts as paid again.`,
+					greeting: 'Hello,',
+					before: [
+						[
+							'Stripe reports that refund ',
+							{ strong: oneLine(message.stripeRefundId) },
+							' of ',
+							{ strong: amount },
+							' on order ',
+							{ strong: order },
+							' failed, so the buyer did not get the money back.'
+						],
+						[
+							'The amount counts as paid on the order again and the order is back where it was before the refund. Please check the card with Stripe and refund again, or reach the buyer another way.'
+						]
+					],
+					button: { label: 'Open the order', url: checkedLink(message.orderUrl) },
+					after: [],
+					footnote: `${sentTo} You get it because you are an admin of this shop.`
 				},
 				shopName
 			);

@@ -11,6 +11,7 @@ import { writeAudit } from '$lib/server/audit';
 import { moveOrder, noteOrder } from '$lib/server/orders/transitions';
 import { syncClutchSoldOut } from '$lib/server/listings/listings';
 import { queueMail } from '$lib/server/mail';
+import { refundTurnedBack } from './refunds';
 
 type Trx = Transaction<Database>;
 
@@ -108,8 +109,12 @@ async function applyEvent(
 			await lapsed(trx, payment, event.type === 'checkout.session.expired' ? 'expired' : 'failed');
 			break;
 		}
+		case 'refund.updated':
+			// A refund the card turned back puts the money back on the order, once.
+			orderId = await refundTurnedBack(trx, event.data.object, deps.origin);
+			break;
 		default:
-			// Refund events belong to the refund flow; the id is kept so a repeat is known.
+			// Other refund events only confirm what the refund flow recorded; the id is kept.
 			break;
 	}
 	if (orderId === null && event.type.startsWith('checkout.session.') && 'id' in event.data.object)
