@@ -347,7 +347,7 @@ describe('photos', () => {
 		}
 	});
 
-	it('does not serve a picture used only by a claim', async () => {
+	it('serves a picture used only by a claim to staff, not to a customer who did not file it', async () => {
 		const claim = await scratch.db
 			.selectFrom('claim')
 			.select('id')
@@ -369,7 +369,11 @@ describe('photos', () => {
 				source_format: photo.sourceFormat
 			})
 			.execute();
-		await expectNotFound(servePhoto(photoEvent(`${photo.hash}-320.webp`, keeper)));
+		const forKeeper = await servePhoto(photoEvent(`${photo.hash}-320.webp`, keeper));
+		expect(forKeeper.status).toBe(200);
+		const customer: SessionUser = { ...keeper, role: 'customer' };
+		await expectNotFound(servePhoto(photoEvent(`${photo.hash}-320.webp`, customer)));
+		await expectNotFound(servePhoto(photoEvent(`${photo.hash}-320.webp`, null)));
 	});
 
 	it('describes and removes photos with audit entries, keeping files another photo still uses', async () => {

@@ -4,7 +4,8 @@
 /** What can carry photos uploaded in the back office. */
 export const PHOTO_TARGET_KINDS = ['species', 'colony', 'clutch', 'listing'] as const;
 export type PhotoTargetKind = (typeof PHOTO_TARGET_KINDS)[number];
-export type PhotoTarget = { kind: PhotoTargetKind; id: number };
+/** Claim photos come from the customer filing a claim, never from the back-office upload form. */
+export type PhotoTarget = { kind: PhotoTargetKind | 'claim'; id: number };
 
 /** One photo as listPhotos returns it: everything a page needs, nothing about who uploaded it. */
 export interface ClientPhoto {

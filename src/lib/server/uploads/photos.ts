@@ -105,7 +105,8 @@ const TARGET_COLUMN = {
 	species: 'species_id',
 	colony: 'colony_id',
 	clutch: 'clutch_id',
-	listing: 'listing_id'
+	listing: 'listing_id',
+	claim: 'claim_id'
 } as const;
 
 function targetColumns(target: PhotoTarget) {
@@ -113,7 +114,8 @@ function targetColumns(target: PhotoTarget) {
 		species_id: target.kind === 'species' ? target.id : null,
 		colony_id: target.kind === 'colony' ? target.id : null,
 		clutch_id: target.kind === 'clutch' ? target.id : null,
-		listing_id: target.kind === 'listing' ? target.id : null
+		listing_id: target.kind === 'listing' ? target.id : null,
+		claim_id: target.kind === 'claim' ? target.id : null
 	};
 }
 
@@ -131,12 +133,13 @@ function toClientPhoto(row: PhotoRow): ClientPhoto {
 	};
 }
 
-/** The species, colony, clutch or listing a photo belongs to (claim photos have none here). */
+/** The species, colony, clutch, listing or claim a photo belongs to. */
 function targetOf(row: PhotoRow): PhotoTarget | null {
 	if (row.species_id !== null) return { kind: 'species', id: row.species_id };
 	if (row.colony_id !== null) return { kind: 'colony', id: row.colony_id };
 	if (row.clutch_id !== null) return { kind: 'clutch', id: row.clutch_id };
 	if (row.listing_id !== null) return { kind: 'listing', id: row.listing_id };
+	if (row.claim_id !== null) return { kind: 'claim', id: row.claim_id };
 	return null;
 }
 
@@ -342,28 +345,37 @@ export async function updateAlt(
 
 /**
  * Who may fetch a stored variant: 'public' when a species, clutch or listing photo
- * uses the hash at that width, 'keeper' when only colony photos do, null otherwise
- * (unknown, or only a claim's photos, which are not served yet).
+ * uses the hash at that width; 'owner' when the viewer filed a claim that uses it
+ * (only they and staff see claim photos); 'keeper' when only colony or other
+ * customers' claim photos use it; null when no photo does.
  */
 export async function photoVisibility(
 	db: Kysely<Database>,
 	hash: string,
-	width: number
-): Promise<'public' | 'keeper' | null> {
+	width: number,
+	viewerId: string | null = null
+): Promise<'public' | 'owner' | 'keeper' | null> {
 	const row = await db
 		.selectFrom('photo')
+		.leftJoin('claim', 'claim.id', 'photo.claim_id')
 		.select([
 			sql<
 				boolean | null
-			>`bool_or(species_id is not null or clutch_id is not null or listing_id is not null)`.as(
+			>`bool_or(photo.species_id is not null or photo.clutch_id is not null or photo.listing_id is not null)`.as(
 				'shop'
 			),
-			sql<boolean | null>`bool_or(colony_id is not null)`.as('office')
+			sql<boolean | null>`bool_or(claim.user_id is not null and claim.user_id = ${viewerId})`.as(
+				'owner'
+			),
+			sql<boolean | null>`bool_or(photo.colony_id is not null or photo.claim_id is not null)`.as(
+				'office'
+			)
 		])
-		.where('content_hash', '=', hash)
-		.where(sql<boolean>`${width}::integer = any(widths)`)
+		.where('photo.content_hash', '=', hash)
+		.where(sql<boolean>`${width}::integer = any(photo.widths)`)
 		.executeTakeFirst();
 	if (row?.shop) return 'public';
+	if (row?.owner) return 'owner';
 	if (row?.office) return 'keeper';
 	return null;
 }
