@@ -11,7 +11,12 @@ import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { DEMO_ACCOUNTS } from '../../seed/accounts';
 import { seedDemo } from '../../seed/demo';
 import type { SessionUser } from '../../src/lib/server/auth/guard';
-import { declineClaim, fileClaim, reshipClaim } from '../../src/lib/server/claims/claims';
+import {
+	claimWindowProblem,
+	declineClaim,
+	fileClaim,
+	reshipClaim
+} from '../../src/lib/server/claims/claims';
 import { addDays, todayInZone } from '../../src/lib/format/dates';
 import type { ForecastSource } from '../../src/lib/server/weather/source';
 import { photoStorage } from '../../src/lib/server/uploads/storage';
@@ -23,6 +28,27 @@ const current = vi.hoisted(() => ({ db: undefined as unknown }));
 vi.mock('$lib/server/db', () => ({ getDb: () => current.db }));
 
 const HOUR = 3_600_000;
+
+describe('the claim window', () => {
+	// 15:00 UTC on 1 Dec 2026 is 10:00 in New York (EST, UTC−5; the US left DST on 1 Nov 2026).
+	const delivered = new Date('2026-12-01T15:00:00Z');
+	it('takes a claim up to the last millisecond of the window and refuses one after it', () => {
+		expect(
+			claimWindowProblem(delivered, new Date('2026-12-01T17:00:00Z'), 2, 'America/New_York')
+		).toBeNull();
+		expect(
+			claimWindowProblem(delivered, new Date('2026-12-01T17:00:00.001Z'), 2, 'America/New_York')
+		).toMatch(
+			/^Claims are taken within 2 hours of delivery; this order was delivered at .*10:00.*\.$/
+		);
+		expect(
+			claimWindowProblem(delivered, new Date('2026-12-01T15:30:00Z'), 1, 'America/New_York')
+		).toBeNull();
+		expect(
+			claimWindowProblem(delivered, new Date('2026-12-01T16:30:00Z'), 1, 'America/New_York')
+		).toContain('within 1 hour of delivery');
+	});
+});
 
 describe('claims', () => {
 	let scratch: ScratchDatabase;
