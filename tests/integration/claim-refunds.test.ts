@@ -1,0 +1,230 @@
+// A claim settled with money, on a real PostgreSQL with the local Stripe stand-in in
+// this process (as checkout.test.ts and refunds.test.ts run it): the refund is the dead
+// animals' share of their line, shipping stays with the carrier, and the claim keeps
+// the refund's id. USD has two minor units (ISO 4217), so $30.00 is 3000.
+import { mkdtemp, rm } from 'node:fs/promises';
+import { createServer, type Server } from 'node:http';
+import type { AddressInfo } from 'node:net';
+import os from 'node:os';
+import path from 'node:path';
+import sharp from 'sharp';
+import Stripe from 'stripe';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { CheckoutForm } from '../../src/lib/checkout/schema';
+import type { Actor } from '../../src/lib/server/audit';
+import { changeLine, ensureCartId } from '../../src/lib/server/cart/cart';
+import { fileClaim } from '../../src/lib/server/claims/claims';
+import { refundClaim, suggestedClaimRefundCents } from '../../src/lib/server/claims/refund';
+import type { Db } from '../../src/lib/server/db/connect';
+import { startCheckout } from '../../src/lib/server/payments/checkout';
+import { handleStripeWebhook, type WebhookDeps } from '../../src/lib/server/payments/webhook';
+import { seedDemo } from '../../seed/demo';
+import { startStripeFake, type StripeFake } from '../fakes/stripe/server';
+import { scratchDatabase, type ScratchDatabase } from './support/databases';
+
+const API_KEY = 'sk_test_local_fake_claims';
+const SECRET = 'whsec_local_fake_claims';
+const ORIGIN = 'http://127.0.0.1:5997';
+
+const address: CheckoutForm = {
+	email: 'claim.buyer@example.com',
+	ship_name: 'Ada Buyer',
+	ship_line1: '100 Example Ave',
+	ship_line2: '',
+	ship_city: 'Minneapolis',
+	ship_state: 'MN',
+	ship_zip: '55401',
+	service: 'overnight',
+	terms: true
+};
+
+describe('refunding a claim', () => {
+	let scratch: ScratchDatabase;
+	let db: Db;
+	let fake: StripeFake;
+	let stripe: Stripe;
+	let receiver: Server;
+	let deps: WebhookDeps;
+	let storageDir: string;
+	let admin: Actor;
+	let buyer: Actor;
+
+	beforeAll(async () => {
+		storageDir = await mkdtemp(path.join(os.tmpdir(), 'hatchlot-claim-refunds-'));
+		process.env.PHOTO_STORAGE_DIR = storageDir;
+		scratch = await scratchDatabase();
+		db = scratch.db;
+		await seedDemo(db, { today: '2026-12-01' });
+		const userOf = async (email: string): Promise<Actor> => ({
+			userId: (
+				await db
+					.selectFrom('User')
+					.select('id')
+					.where('email', '=', email)
+					.executeTakeFirstOrThrow()
+			).id,
+			ip: '127.0.0.1'
+		});
+		admin = await userOf('wren@mossback.example.com');
+		buyer = await userOf('dagny.halvorsen@example.com');
+		receiver = createServer((request, response) => {
+			const chunks: Buffer[] = [];
+			request.on('data', (chunk: Buffer) => chunks.push(chunk));
+			request.on('end', () => {
+				const header = request.headers['stripe-signature'];
+				void handleStripeWebhook(
+					deps,
+					Buffer.concat(chunks).toString('utf8'),
+					typeof header === 'string' ? header : null
+				).then((answer) => response.writeHead(answer.status).end(JSON.stringify(answer.body)));
+			});
+		});
+		await new Promise<void>((resolve) => receiver.listen(0, '127.0.0.1', () => resolve()));
+		const port = (receiver.address() as AddressInfo).port;
+		fake = await startStripeFake({
+			port: 0,
+			apiKey: API_KEY,
+			webhookSecret: SECRET,
+			webhookUrl: `http://127.0.0.1:${port}/api/stripe/webhook`,
+			retryDelaysMs: [50, 100, 200],
+			log: () => {}
+		});
+		const api = new URL(fake.url);
+		stripe = new Stripe(API_KEY, {
+			host: api.hostname,
+			port: Number(api.port),
+			protocol: 'http',
+			maxNetworkRetries: 0
+		});
+		deps = { db, stripe, secret: SECRET, origin: ORIGIN, log: () => {} };
+	});
+	afterAll(async () => {
+		delete process.env.PHOTO_STORAGE_DIR;
+		await fake?.stop();
+		await new Promise<void>((resolve) => (receiver ? receiver.close(() => resolve()) : resolve()));
+		await scratch?.drop();
+		if (storageDir) await rm(storageDir, { recursive: true, force: true });
+	});
+
+	it('refunds the dead animals’ share of their line, not the shipping, and records the refund on the claim', async () => {
+		// Three animals at $10.00 each, paid by card through the stand-in.
+		const species = await db
+			.selectFrom('species')
+			.select('id')
+			.where('slug', '=', 'cubaris-murina')
+			.executeTakeFirstOrThrow();
+		const clutch = await db
+			.insertInto('clutch')
+			.values({
+				code: 'CLM-T1',
+				species_id: species.id,
+				origin: 'bought_in',
+				generation: 1,
+				found_on: '2026-06-01',
+				stage: 'juvenile',
+				size_class: 'small',
+				count_found: 6,
+				count_alive: 6,
+				state: 'listed',
+				sale_ready_on: '2026-11-01'
+			})
+			.returning('id')
+			.executeTakeFirstOrThrow();
+		const listing = await db
+			.insertInto('listing')
+			.values({
+				slug: 'claim-refund-test-listing',
+				kind: 'animal',
+				species_id: species.id,
+				clutch_id: clutch.id,
+				title: 'Claim isopods',
+				unit_size: 1,
+				state: 'live',
+				published_at: new Date()
+			})
+			.returning('id')
+			.executeTakeFirstOrThrow();
+		await db
+			.insertInto('price_tier')
+			.values({ listing_id: listing.id, min_quantity: 1, price_cents: 1000 })
+			.execute();
+		const cartId = await ensureCartId(db, { userId: null, guestCartId: null });
+		const owner = { userId: null, guestCartId: cartId };
+		expect(
+			(await changeLine(db, owner, { listingId: listing.id, quantity: 3, mode: 'set' })).ok
+		).toBe(true);
+		const started = await startCheckout(db, stripe, owner, address, {
+			origin: ORIGIN,
+			clientIp: null
+		});
+		if (!started.ok) throw new Error('checkout refused');
+		expect(fake.pay(started.sessionId, '4242 4242 4242 4242').paid).toBe(true);
+		await fake.idle();
+		// The box arrived half an hour ago at the buyer's account (set here rather than walked
+		// through packing and shipping, which order-transitions.test.ts covers).
+		await db
+			.updateTable('customer_order')
+			.set({
+				user_id: buyer.userId,
+				state: 'delivered',
+				delivered_at: new Date(Date.now() - 30 * 60_000)
+			})
+			.where('id', '=', started.orderId)
+			.execute();
+		const order = await db
+			.selectFrom('customer_order')
+			.selectAll()
+			.where('id', '=', started.orderId)
+			.executeTakeFirstOrThrow();
+		expect(order.paid_cents).toBe(3000 + order.shipping_cents);
+		const line = await db
+			.selectFrom('order_line')
+			.select('id')
+			.where('order_id', '=', order.id)
+			.executeTakeFirstOrThrow();
+
+		const photo = await sharp({
+			create: { width: 400, height: 300, channels: 3, background: '#6b4f2a' }
+		})
+			.png()
+			.toBuffer();
+		const filed = await fileClaim(db, buyer, {
+			orderNumber: order.order_number,
+			lines: [{ orderLineId: line.id, deadCount: 2 }],
+			note: 'Two did not move when the cup was opened.',
+			photos: [{ name: 'cup.png', bytes: photo }]
+		});
+		if (!filed.ok) throw new Error(filed.problem);
+
+		// 2 of 3 animals of a $30.00 line: $20.00; the shipping is not part of it.
+		expect(await suggestedClaimRefundCents(db, filed.claimId)).toBe(2000);
+		const outcome = await refundClaim(
+			db,
+			admin,
+			{ claimId: filed.claimId, note: 'Sorry about the two: the money for them is on its way.' },
+			{ stripe }
+		);
+		if (!outcome.ok) throw new Error(outcome.problem);
+		expect(outcome.amountCents).toBe(2000);
+		await fake.idle();
+		const claim = await db
+			.selectFrom('claim')
+			.selectAll()
+			.where('id', '=', filed.claimId)
+			.executeTakeFirstOrThrow();
+		expect(claim).toMatchObject({
+			state: 'refunded',
+			refund_id: outcome.refundId,
+			decided_by: admin.userId
+		});
+		const refund = await db
+			.selectFrom('refund')
+			.select(['amount_cents', 'order_id'])
+			.where('id', '=', outcome.refundId)
+			.executeTakeFirstOrThrow();
+		expect(refund).toEqual({ amount_cents: 2000, order_id: order.id });
+		// A decided claim is not refunded twice.
+		const again = await refundClaim(db, admin, { claimId: filed.claimId, note: '' }, { stripe });
+		expect(again).toMatchObject({ ok: false, status: 409 });
+	});
+});
