@@ -1,6 +1,7 @@
 // Refunds on a real PostgreSQL, with the local Stripe stand-in started in this process
 // and reached through the real `stripe` package, as checkout.test.ts does. Amounts are
 // in cents: USD has two minor units (ISO 4217), so $100.00 is 10000.
+import { isHttpError } from '@sveltejs/kit';
 import { createServer, type Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { sql } from 'kysely';
@@ -18,6 +19,8 @@ import type { CheckoutForm } from '../../src/lib/checkout/schema';
 import type { Db } from '../../src/lib/server/db/connect';
 import type { Actor } from '../../src/lib/server/audit';
 import { seedDemo } from '../../seed/demo';
+import type { SessionUser } from '../../src/lib/server/auth/guard';
+import { actions as orderPageActions } from '../../src/routes/manage/orders/[number]/+page.server';
 import { startStripeFake, type StripeFake } from '../fakes/stripe/server';
 import { scratchDatabase, type ScratchDatabase } from './support/databases';
 
@@ -323,6 +326,38 @@ describe('refunds', () => {
 		expect(await refundsOf(order.id)).toEqual([]);
 		expect(await refundsOf(unpaid.orderId)).toEqual([]);
 		expect((await orderOf(order.id)).refunded_cents).toBe(0);
+	});
+
+	it('refuses a keeper at the order page’s refund action on the server', async () => {
+		const order = await paidOrder(10000);
+		const before = refundCalls();
+		const user: SessionUser = {
+			id: keeper.userId,
+			name: 'Teo Marsh',
+			email: 'teo@mossback.example.com',
+			role: 'keeper'
+		};
+		const body = new FormData();
+		body.set('amount', '10.00');
+		body.set('reason', 'A keeper should not get this far.');
+		type ActionEvent = Parameters<typeof orderPageActions.refund>[0];
+		const event = {
+			url: new URL(`${ORIGIN}/manage/orders/${order.order_number}?/refund`),
+			params: { number: order.order_number },
+			locals: { user, sessionToken: null },
+			request: new Request(`${ORIGIN}/manage/orders/${order.order_number}?/refund`, {
+				method: 'POST',
+				body
+			}),
+			getClientAddress: () => '127.0.0.1'
+		} as unknown as ActionEvent;
+		const status = await orderPageActions.refund(event).then(
+			() => 'done',
+			(cause: unknown) => (isHttpError(cause) ? cause.status : cause)
+		);
+		expect(status).toBe(403);
+		expect(refundCalls()).toBe(before);
+		expect(await refundsOf(order.id)).toEqual([]);
 	});
 
 	it('shows the error and counts nothing when Stripe is failing', async () => {
