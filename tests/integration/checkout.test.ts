@@ -2,8 +2,6 @@
 // started in this process and reached through the real `stripe` package. Signatures are
 // made and checked by that package (stripe.webhooks.generateTestHeaderString and
 // constructEvent): Stripe's published signing scheme is the outside reference.
-import { createServer, type Server } from 'node:http';
-import type { AddressInfo } from 'node:net';
 import { sql } from 'kysely';
 import Stripe from 'stripe';
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
@@ -14,7 +12,8 @@ import { handleStripeWebhook, type WebhookDeps } from '../../src/lib/server/paym
 import type { CheckoutForm } from '../../src/lib/checkout/schema';
 import type { Db } from '../../src/lib/server/db/connect';
 import { seedDemo } from '../../seed/demo';
-import { startStripeFake, type StripeFake } from '../fakes/stripe/server';
+import type { StripeFake } from '../fakes/stripe/server';
+import { startPaymentsHarness, type PaymentsHarness } from './support/payments';
 import { scratchDatabase, type ScratchDatabase } from './support/databases';
 
 const API_KEY = 'sk_test_local_fake_checkout';
@@ -38,7 +37,7 @@ describe('checkout and the Stripe webhook', () => {
 	let db: Db;
 	let fake: StripeFake;
 	let stripe: Stripe;
-	let receiver: Server;
+	let payments: PaymentsHarness;
 	let deps: WebhookDeps;
 	let speciesId: number;
 	const answers: number[] = [];
@@ -55,42 +54,16 @@ describe('checkout and the Stripe webhook', () => {
 				.executeTakeFirstOrThrow()
 		).id;
 		// The app's webhook, as the route calls it: the raw body and the signature header.
-		receiver = createServer((request, response) => {
-			const chunks: Buffer[] = [];
-			request.on('data', (chunk: Buffer) => chunks.push(chunk));
-			request.on('end', () => {
-				const forced = answers.shift();
-				if (forced) return void response.writeHead(forced).end();
-				const header = request.headers['stripe-signature'];
-				void handleStripeWebhook(
-					deps,
-					Buffer.concat(chunks).toString('utf8'),
-					typeof header === 'string' ? header : null
-				).then((answer) => response.writeHead(answer.status).end(JSON.stringify(answer.body)));
-			});
-		});
-		await new Promise<void>((resolve) => receiver.listen(0, '127.0.0.1', () => resolve()));
-		const port = (receiver.address() as AddressInfo).port;
-		fake = await startStripeFake({
-			port: 0,
+		payments = await startPaymentsHarness(db, {
 			apiKey: API_KEY,
-			webhookSecret: SECRET,
-			webhookUrl: `http://127.0.0.1:${port}/api/stripe/webhook`,
-			retryDelaysMs: [50, 100, 200],
-			log: () => {}
+			secret: SECRET,
+			origin: ORIGIN,
+			forcedAnswers: answers
 		});
-		const api = new URL(fake.url);
-		stripe = new Stripe(API_KEY, {
-			host: api.hostname,
-			port: Number(api.port),
-			protocol: 'http',
-			maxNetworkRetries: 0
-		});
-		deps = { db, stripe, secret: SECRET, origin: ORIGIN, log: () => {} };
+		({ fake, stripe, deps } = payments);
 	});
 	afterAll(async () => {
-		await fake?.stop();
-		await new Promise<void>((resolve) => (receiver ? receiver.close(() => resolve()) : resolve()));
+		await payments?.stop();
 		await scratch?.drop();
 	});
 	beforeEach(async () => {

@@ -3,8 +3,6 @@
 // animals' share of their line, shipping stays with the carrier, and the claim keeps
 // the refund's id. USD has two minor units (ISO 4217), so $30.00 is 3000.
 import { mkdtemp, rm } from 'node:fs/promises';
-import { createServer, type Server } from 'node:http';
-import type { AddressInfo } from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
 import sharp from 'sharp';
@@ -17,9 +15,9 @@ import { fileClaim } from '../../src/lib/server/claims/claims';
 import { refundClaim, suggestedClaimRefundCents } from '../../src/lib/server/claims/refund';
 import type { Db } from '../../src/lib/server/db/connect';
 import { startCheckout } from '../../src/lib/server/payments/checkout';
-import { handleStripeWebhook, type WebhookDeps } from '../../src/lib/server/payments/webhook';
 import { seedDemo } from '../../seed/demo';
-import { startStripeFake, type StripeFake } from '../fakes/stripe/server';
+import type { StripeFake } from '../fakes/stripe/server';
+import { startPaymentsHarness, type PaymentsHarness } from './support/payments';
 import { scratchDatabase, type ScratchDatabase } from './support/databases';
 
 const API_KEY = 'sk_test_local_fake_claims';
@@ -43,8 +41,7 @@ describe('refunding a claim', () => {
 	let db: Db;
 	let fake: StripeFake;
 	let stripe: Stripe;
-	let receiver: Server;
-	let deps: WebhookDeps;
+	let payments: PaymentsHarness;
 	let storageDir: string;
 	let admin: Actor;
 	let buyer: Actor;
@@ -67,41 +64,12 @@ describe('refunding a claim', () => {
 		});
 		admin = await userOf('wren@mossback.example.com');
 		buyer = await userOf('dagny.halvorsen@example.com');
-		receiver = createServer((request, response) => {
-			const chunks: Buffer[] = [];
-			request.on('data', (chunk: Buffer) => chunks.push(chunk));
-			request.on('end', () => {
-				const header = request.headers['stripe-signature'];
-				void handleStripeWebhook(
-					deps,
-					Buffer.concat(chunks).toString('utf8'),
-					typeof header === 'string' ? header : null
-				).then((answer) => response.writeHead(answer.status).end(JSON.stringify(answer.body)));
-			});
-		});
-		await new Promise<void>((resolve) => receiver.listen(0, '127.0.0.1', () => resolve()));
-		const port = (receiver.address() as AddressInfo).port;
-		fake = await startStripeFake({
-			port: 0,
-			apiKey: API_KEY,
-			webhookSecret: SECRET,
-			webhookUrl: `http://127.0.0.1:${port}/api/stripe/webhook`,
-			retryDelaysMs: [50, 100, 200],
-			log: () => {}
-		});
-		const api = new URL(fake.url);
-		stripe = new Stripe(API_KEY, {
-			host: api.hostname,
-			port: Number(api.port),
-			protocol: 'http',
-			maxNetworkRetries: 0
-		});
-		deps = { db, stripe, secret: SECRET, origin: ORIGIN, log: () => {} };
+		payments = await startPaymentsHarness(db, { apiKey: API_KEY, secret: SECRET, origin: ORIGIN });
+		({ fake, stripe } = payments);
 	});
 	afterAll(async () => {
 		delete process.env.PHOTO_STORAGE_DIR;
-		await fake?.stop();
-		await new Promise<void>((resolve) => (receiver ? receiver.close(() => resolve()) : resolve()));
+		await payments?.stop();
 		await scratch?.drop();
 		if (storageDir) await rm(storageDir, { recursive: true, force: true });
 	});

@@ -2,14 +2,11 @@
 // and reached through the real `stripe` package, as checkout.test.ts does. Amounts are
 // in cents: USD has two minor units (ISO 4217), so $100.00 is 10000.
 import { isHttpError } from '@sveltejs/kit';
-import { createServer, type Server } from 'node:http';
-import type { AddressInfo } from 'node:net';
 import { sql } from 'kysely';
 import Stripe from 'stripe';
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import { changeLine, ensureCartId } from '../../src/lib/server/cart/cart';
 import { startCheckout } from '../../src/lib/server/payments/checkout';
-import { handleStripeWebhook, type WebhookDeps } from '../../src/lib/server/payments/webhook';
 import {
 	refundableCents,
 	refundOrder,
@@ -21,7 +18,8 @@ import type { Actor } from '../../src/lib/server/audit';
 import { seedDemo } from '../../seed/demo';
 import type { SessionUser } from '../../src/lib/server/auth/guard';
 import { actions as orderPageActions } from '../../src/routes/manage/orders/[number]/+page.server';
-import { startStripeFake, type StripeFake } from '../fakes/stripe/server';
+import type { StripeFake } from '../fakes/stripe/server';
+import { startPaymentsHarness, type PaymentsHarness } from './support/payments';
 import { scratchDatabase, type ScratchDatabase } from './support/databases';
 
 const API_KEY = 'sk_test_local_fake_refunds';
@@ -45,8 +43,7 @@ describe('refunds', () => {
 	let db: Db;
 	let fake: StripeFake;
 	let stripe: Stripe;
-	let receiver: Server;
-	let deps: WebhookDeps;
+	let payments: PaymentsHarness;
 	let speciesId: number;
 	let admin: Actor;
 	let keeper: Actor;
@@ -75,36 +72,8 @@ describe('refunds', () => {
 		});
 		admin = await userOf('wren@mossback.example.com');
 		keeper = await userOf('teo@mossback.example.com');
-		receiver = createServer((request, response) => {
-			const chunks: Buffer[] = [];
-			request.on('data', (chunk: Buffer) => chunks.push(chunk));
-			request.on('end', () => {
-				const header = request.headers['stripe-signature'];
-				void handleStripeWebhook(
-					deps,
-					Buffer.concat(chunks).toString('utf8'),
-					typeof header === 'string' ? header : null
-				).then((answer) => response.writeHead(answer.status).end(JSON.stringify(answer.body)));
-			});
-		});
-		await new Promise<void>((resolve) => receiver.listen(0, '127.0.0.1', () => resolve()));
-		const port = (receiver.address() as AddressInfo).port;
-		fake = await startStripeFake({
-			port: 0,
-			apiKey: API_KEY,
-			webhookSecret: SECRET,
-			webhookUrl: `http://127.0.0.1:${port}/api/stripe/webhook`,
-			retryDelaysMs: [50, 100, 200],
-			log: () => {}
-		});
-		const api = new URL(fake.url);
-		stripe = new Stripe(API_KEY, {
-			host: api.hostname,
-			port: Number(api.port),
-			protocol: 'http',
-			maxNetworkRetries: 0
-		});
-		deps = { db, stripe, secret: SECRET, origin: ORIGIN, log: () => {} };
+		payments = await startPaymentsHarness(db, { apiKey: API_KEY, secret: SECRET, origin: ORIGIN });
+		({ fake, stripe } = payments);
 		// What overnight shipping costs to the test address, so an order can total $100.00.
 		const probe = await listed(1000, 5);
 		const cart = await cartOf(probe, 1);
@@ -122,8 +91,7 @@ describe('refunds', () => {
 		).shipping_cents;
 	});
 	afterAll(async () => {
-		await fake?.stop();
-		await new Promise<void>((resolve) => (receiver ? receiver.close(() => resolve()) : resolve()));
+		await payments?.stop();
 		await scratch?.drop();
 	});
 	beforeEach(async () => {
