@@ -6,7 +6,6 @@ import { sql } from 'kysely';
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import {
 	changeLine,
-	ensureCartId,
 	findCartId,
 	holdCart,
 	mergeGuestCart,
@@ -19,8 +18,7 @@ import { onOfferOf } from '../../src/lib/server/listings/offer';
 import type { Db } from '../../src/lib/server/db/connect';
 import { seedDemo } from '../../seed/demo';
 import { scratchDatabase, type ScratchDatabase } from './support/databases';
-
-const guest = (guestCartId: string | null = null): CartOwner => ({ userId: null, guestCartId });
+import { guestCartWith as guestCart, insertListedClutch } from './support/stock';
 
 describe('cart and holds', () => {
 	let scratch: ScratchDatabase;
@@ -55,53 +53,25 @@ describe('cart and holds', () => {
 	/** A listed clutch of `alive` animals and a live listing of it, priced 1 for $6, 5 for $26. */
 	async function listedClutch(alive: number, unitSize = 1) {
 		serial += 1;
-		const clutch = await db
-			.insertInto('clutch')
-			.values({
-				code: `CART-T${serial}`,
-				species_id: speciesId,
-				origin: 'bought_in',
-				generation: 1,
-				found_on: '2026-06-01',
-				stage: 'sub_adult',
-				size_class: 'small',
-				count_found: alive,
-				count_alive: alive,
-				state: 'listed',
-				sale_ready_on: '2026-11-01'
-			})
-			.returning('id')
-			.executeTakeFirstOrThrow();
-		const listing = await db
-			.insertInto('listing')
-			.values({
-				slug: `cart-test-listing-${serial}`,
-				kind: 'animal',
-				species_id: speciesId,
-				clutch_id: clutch.id,
-				title: `Test isopods ${serial}`,
-				unit_size: unitSize,
-				state: 'live',
-				published_at: new Date()
-			})
-			.returning('id')
-			.executeTakeFirstOrThrow();
-		await db
-			.insertInto('price_tier')
-			.values([
-				{ listing_id: listing.id, min_quantity: 1, price_cents: 600 },
-				{ listing_id: listing.id, min_quantity: 5, price_cents: 2600 }
-			])
-			.execute();
-		return { clutchId: clutch.id, listingId: listing.id };
+		return insertListedClutch(db, {
+			speciesId,
+			code: `CART-T${serial}`,
+			slug: `cart-test-listing-${serial}`,
+			title: `Test isopods ${serial}`,
+			alive,
+			unitSize,
+			stage: 'sub_adult',
+			tiers: [
+				{ minQuantity: 1, priceCents: 600 },
+				{ minQuantity: 5, priceCents: 2600 }
+			]
+		});
 	}
 
 	async function guestCartWith(listingId: number, quantity: number): Promise<CartOwner> {
-		const cartId = await ensureCartId(db, guest());
-		const owner = guest(cartId);
-		const outcome = await changeLine(db, owner, { listingId, quantity, mode: 'set' });
-		expect(outcome.ok).toBe(true);
-		return owner;
+		const owner = await guestCart(db, listingId, quantity);
+		expect(owner).not.toBeNull();
+		return owner!;
 	}
 
 	beforeEach(async () => {

@@ -5,7 +5,7 @@
 import { sql } from 'kysely';
 import Stripe from 'stripe';
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
-import { changeLine, ensureCartId, type CartOwner } from '../../src/lib/server/cart/cart';
+import type { CartOwner } from '../../src/lib/server/cart/cart';
 import { onOfferOf } from '../../src/lib/server/listings/offer';
 import { startCheckout } from '../../src/lib/server/payments/checkout';
 import { handleStripeWebhook, type WebhookDeps } from '../../src/lib/server/payments/webhook';
@@ -14,6 +14,7 @@ import type { Db } from '../../src/lib/server/db/connect';
 import { seedDemo } from '../../seed/demo';
 import type { StripeFake } from '../fakes/stripe/server';
 import { startPaymentsHarness, type PaymentsHarness } from './support/payments';
+import { guestCartWith, insertListedClutch } from './support/stock';
 import { scratchDatabase, type ScratchDatabase } from './support/databases';
 
 const API_KEY = 'sk_test_local_fake_checkout';
@@ -75,53 +76,23 @@ describe('checkout and the Stripe webhook', () => {
 	/** A listed clutch of `alive` animals and a live listing of it at $18.00 for one, $48.00 for three. */
 	async function listedClutch(alive: number) {
 		serial += 1;
-		const clutch = await db
-			.insertInto('clutch')
-			.values({
-				code: `CHK-T${serial}`,
-				species_id: speciesId,
-				origin: 'bought_in',
-				generation: 1,
-				found_on: '2026-06-01',
-				stage: 'juvenile',
-				size_class: 'small',
-				count_found: alive,
-				count_alive: alive,
-				state: 'listed',
-				sale_ready_on: '2026-11-01'
-			})
-			.returning('id')
-			.executeTakeFirstOrThrow();
-		const listing = await db
-			.insertInto('listing')
-			.values({
-				slug: `checkout-test-listing-${serial}`,
-				kind: 'animal',
-				species_id: speciesId,
-				clutch_id: clutch.id,
-				title: `Checkout isopods ${serial}`,
-				unit_size: 1,
-				state: 'live',
-				published_at: new Date()
-			})
-			.returning('id')
-			.executeTakeFirstOrThrow();
-		await db
-			.insertInto('price_tier')
-			.values([
-				{ listing_id: listing.id, min_quantity: 1, price_cents: 1800 },
-				{ listing_id: listing.id, min_quantity: 3, price_cents: 4800 }
-			])
-			.execute();
-		return { clutchId: clutch.id, listingId: listing.id };
+		return insertListedClutch(db, {
+			speciesId,
+			code: `CHK-T${serial}`,
+			slug: `checkout-test-listing-${serial}`,
+			title: `Checkout isopods ${serial}`,
+			alive,
+			tiers: [
+				{ minQuantity: 1, priceCents: 1800 },
+				{ minQuantity: 3, priceCents: 4800 }
+			]
+		});
 	}
 
 	async function cartWith(listingId: number, quantity: number): Promise<CartOwner> {
-		const cartId = await ensureCartId(db, { userId: null, guestCartId: null });
-		const owner = { userId: null, guestCartId: cartId };
-		const outcome = await changeLine(db, owner, { listingId, quantity, mode: 'set' });
-		expect(outcome.ok).toBe(true);
-		return owner;
+		const owner = await guestCartWith(db, listingId, quantity);
+		expect(owner).not.toBeNull();
+		return owner!;
 	}
 
 	const checkout = (owner: CartOwner, form: Partial<CheckoutForm> = {}) =>

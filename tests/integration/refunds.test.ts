@@ -5,7 +5,6 @@ import { isHttpError } from '@sveltejs/kit';
 import { sql } from 'kysely';
 import Stripe from 'stripe';
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
-import { changeLine, ensureCartId } from '../../src/lib/server/cart/cart';
 import { startCheckout } from '../../src/lib/server/payments/checkout';
 import {
 	refundableCents,
@@ -20,6 +19,7 @@ import type { SessionUser } from '../../src/lib/server/auth/guard';
 import { actions as orderPageActions } from '../../src/routes/manage/orders/[number]/+page.server';
 import type { StripeFake } from '../fakes/stripe/server';
 import { startPaymentsHarness, type PaymentsHarness } from './support/payments';
+import { guestCartWith, insertListedClutch } from './support/stock';
 import { scratchDatabase, type ScratchDatabase } from './support/databases';
 
 const API_KEY = 'sk_test_local_fake_refunds';
@@ -103,50 +103,21 @@ describe('refunds', () => {
 	/** A live listing of a fresh clutch, `priceCents` for one animal. */
 	async function listed(priceCents: number, alive: number): Promise<number> {
 		serial += 1;
-		const clutch = await db
-			.insertInto('clutch')
-			.values({
-				code: `RFD-T${serial}`,
-				species_id: speciesId,
-				origin: 'bought_in',
-				generation: 1,
-				found_on: '2026-06-01',
-				stage: 'juvenile',
-				size_class: 'small',
-				count_found: alive,
-				count_alive: alive,
-				state: 'listed',
-				sale_ready_on: '2026-11-01'
-			})
-			.returning('id')
-			.executeTakeFirstOrThrow();
-		const listing = await db
-			.insertInto('listing')
-			.values({
-				slug: `refund-test-listing-${serial}`,
-				kind: 'animal',
-				species_id: speciesId,
-				clutch_id: clutch.id,
-				title: `Refund isopods ${serial}`,
-				unit_size: 1,
-				state: 'live',
-				published_at: new Date()
-			})
-			.returning('id')
-			.executeTakeFirstOrThrow();
-		await db
-			.insertInto('price_tier')
-			.values({ listing_id: listing.id, min_quantity: 1, price_cents: priceCents })
-			.execute();
-		return listing.id;
+		const { listingId } = await insertListedClutch(db, {
+			speciesId,
+			code: `RFD-T${serial}`,
+			slug: `refund-test-listing-${serial}`,
+			title: `Refund isopods ${serial}`,
+			alive,
+			tiers: [{ minQuantity: 1, priceCents }]
+		});
+		return listingId;
 	}
 
 	async function cartOf(listingId: number, quantity: number) {
-		const cartId = await ensureCartId(db, { userId: null, guestCartId: null });
-		const owner = { userId: null, guestCartId: cartId };
-		const changed = await changeLine(db, owner, { listingId, quantity, mode: 'set' });
-		expect(changed.ok).toBe(true);
-		return owner;
+		const owner = await guestCartWith(db, listingId, quantity);
+		expect(owner).not.toBeNull();
+		return owner!;
 	}
 
 	/** An order paid by card, totalling `totalCents` with shipping, of `quantity` animals. */
