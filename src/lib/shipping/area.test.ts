@@ -4,7 +4,7 @@ import { SHIPPING_AREA_STATES, shippingAreaProblem } from './area';
 
 describe('shipping area', () => {
 	it('is the 48 contiguous states and DC', () => {
-		// 50 states less Alaska and Hawaii, plus the District: 49 (US Census Bureau's list of states).
+		// 50 states less Alaska and Hawaii, plus the District: 49 (USPS state codes; the count is from memory).
 		expect(SHIPPING_AREA_STATES.size).toBe(49);
 		expect(SHIPPING_AREA_STATES.has('AK')).toBe(false);
 		expect(SHIPPING_AREA_STATES.has('HI')).toBe(false);
