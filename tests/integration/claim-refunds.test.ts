@@ -191,6 +191,19 @@ describe('refunding a claim', () => {
 			.where('id', '=', outcome.refundId)
 			.executeTakeFirstOrThrow();
 		expect(refund).toEqual({ amount_cents: 2000, order_id: order.id });
+		// The buyer gets one refund mail that says their claim is decided.
+		const told = await db
+			.selectFrom('outgoing_mail')
+			.select(['to_address', 'text_body'])
+			.where('kind', '=', 'refund_issued')
+			.where('text_body', 'like', `%${order.order_number}%`)
+			.execute();
+		expect(told).toHaveLength(1);
+		expect(told[0]!.text_body).toContain(
+			`We have looked at your claim on order ${order.order_number}`
+		);
+		// 2000 cents is $20.00: USD has two minor units (ISO 4217).
+		expect(told[0]!.text_body).toContain('We have sent $20.00 back');
 		// A decided claim is not refunded twice.
 		const again = await refundClaim(db, admin, { claimId: filed.claimId, note: '' }, { stripe });
 		expect(again).toMatchObject({ ok: false, status: 409 });

@@ -63,6 +63,13 @@ describe('claims', () => {
 	const actorOf = (user: SessionUser) => ({ userId: user.id, ip: '127.0.0.1' });
 	const claimsOf = () =>
 		scratch.db.selectFrom('claim').selectAll().where('order_id', '=', order.id).execute();
+	const mailOf = (kind: string) =>
+		scratch.db
+			.selectFrom('outgoing_mail')
+			.select(['to_address', 'subject', 'text_body'])
+			.where('kind', '=', kind)
+			.orderBy('id')
+			.execute();
 
 	beforeAll(async () => {
 		storageDir = await mkdtemp(path.join(os.tmpdir(), 'hatchlot-claims-'));
@@ -227,6 +234,13 @@ describe('claims', () => {
 			.where('entity_id', '=', String(outcome.claimId))
 			.execute();
 		expect(audit).toHaveLength(1);
+		// The buyer hears the claim is in; every admin is asked for a decision, once.
+		const received = await mailOf('claim_received');
+		expect(received.map((m) => m.to_address)).toEqual([owner.email]);
+		expect(received[0]!.text_body).toContain(`/account/orders/${order.order_number}`);
+		const filedMail = await mailOf('claim_filed');
+		expect(filedMail.map((m) => m.to_address)).toEqual([staff.get('admin')!.email]);
+		expect(filedMail[0]!.text_body).toContain(`/admin/claims/${outcome.claimId}`);
 
 		const second = await fileClaim(scratch.db, actorOf(owner), filing(), now);
 		expect(second).toMatchObject({ ok: false, status: 409 });
@@ -271,6 +285,10 @@ describe('claims', () => {
 		});
 		const again = await declineClaim(scratch.db, actorOf(admin), { claimId: claim!.id, reason });
 		expect(again).toMatchObject({ ok: false, status: 409 });
+		// One decision mail with the reason, not one per attempt.
+		const told = await mailOf('claim_decided');
+		expect(told.map((m) => m.to_address)).toEqual([owner.email]);
+		expect(told[0]!.text_body).toContain(`Why: ${reason}`);
 	});
 
 	it('reships as a linked no-charge order of the dead counts, which the ship check then schedules', async () => {
@@ -366,6 +384,10 @@ describe('claims', () => {
 			reship_order_id: outcome.orderId,
 			decided_by: admin.id
 		});
+		const told = await mailOf('claim_decided');
+		expect(told).toHaveLength(2);
+		expect(told[1]!.to_address).toBe(owner.email);
+		expect(told[1]!.text_body).toContain(`at no charge, as order ${reship.order_number}.`);
 		const again = await reshipClaim(
 			scratch.db,
 			actorOf(admin),

@@ -9,6 +9,7 @@ import { sql, type Kysely } from 'kysely';
 import { writeAudit, type Actor } from '../audit';
 import type { Db } from '../db/connect';
 import type { Database } from '../db/schema';
+import { adminAddresses, queueMail } from '../mail';
 import { moveOrder } from '../orders/transitions';
 import { checkOrder, type OrderCheckOutcome } from '../shipping/order-checks';
 import { savePhotos, type UploadedPhotoFile } from '../uploads/photos';
@@ -30,6 +31,17 @@ export interface FileClaimInput {
 }
 
 export const MIN_DECLINE_REASON = 10;
+
+/** Where the links in claim mail point: the shop's public origin, e.g. https://shop.example.com. */
+export type ClaimLinks = { origin: string };
+
+// Routes pass the app's origin; this fallback serves scripts and tests outside SvelteKit.
+const defaultLinks = (): ClaimLinks => ({
+	origin: (process.env.ORIGIN ?? 'http://127.0.0.1:3000').replace(/\/$/, '')
+});
+
+const customerOrderUrl = (links: ClaimLinks, orderNumber: string) =>
+	`${links.origin}/account/orders/${encodeURIComponent(orderNumber)}`;
 const notFound: ClaimRefusal = { ok: false, status: 404, problem: 'Order not found.' };
 
 /**
@@ -56,7 +68,8 @@ export async function fileClaim(
 	db: Kysely<Database>,
 	actor: Actor,
 	input: FileClaimInput,
-	now: Date = new Date()
+	now: Date = new Date(),
+	links: ClaimLinks = defaultLinks()
 ): Promise<{ ok: true; claimId: number } | ClaimRefusal> {
 	const lines = input.lines.filter((l) => l.deadCount > 0);
 	if (lines.length === 0)
@@ -186,7 +199,45 @@ export async function fileClaim(
 		const reasons = saved.refusals.map((r) => (r.file ? `${r.file}: ${r.reason}` : r.reason));
 		return { ok: false, status: 400, field: 'photos', problem: reasons.join(' ') };
 	}
+	await db.transaction().execute(async (trx) => {
+		const buyer = await trx
+			.selectFrom('customer_order as o')
+			.leftJoin('User as u', 'u.id', 'o.user_id')
+			.select(['o.email', 'u.name'])
+			.where('o.order_number', '=', input.orderNumber)
+			.executeTakeFirstOrThrow();
+		const dead = await claimDeadLines(trx, created.claimId);
+		await queueMail(trx, {
+			kind: 'claim_received',
+			to: buyer.email,
+			name: buyer.name,
+			orderNumber: input.orderNumber,
+			lines: dead.map((l) => ({ description: l.description, deadCount: l.dead_count })),
+			photoCount: input.photos.length,
+			orderUrl: customerOrderUrl(links, input.orderNumber)
+		});
+		for (const admin of await adminAddresses(trx))
+			await queueMail(trx, {
+				kind: 'claim_filed',
+				to: admin,
+				orderNumber: input.orderNumber,
+				customer: buyer.name ? `${buyer.name}, ${buyer.email}` : buyer.email,
+				deadCount: dead.reduce((sum, l) => sum + l.dead_count, 0),
+				claimUrl: `${links.origin}/admin/claims/${created.claimId}`
+			});
+	});
 	return created;
+}
+
+/** The buyer of a claim's order, for the decision mail. */
+async function claimBuyer(trx: Kysely<Database>, claimId: number) {
+	return trx
+		.selectFrom('claim')
+		.innerJoin('customer_order as o', 'o.id', 'claim.order_id')
+		.leftJoin('User as u', 'u.id', 'o.user_id')
+		.select(['o.email', 'o.order_number', 'u.name'])
+		.where('claim.id', '=', claimId)
+		.executeTakeFirstOrThrow();
 }
 
 /** Declines an open claim with the reason the customer will read. */
@@ -194,7 +245,8 @@ export async function declineClaim(
 	db: Kysely<Database>,
 	actor: Actor,
 	input: { claimId: number; reason: string },
-	now: Date = new Date()
+	now: Date = new Date(),
+	links: ClaimLinks = defaultLinks()
 ): Promise<{ ok: true } | ClaimRefusal> {
 	const reason = input.reason.trim();
 	if (reason.length < MIN_DECLINE_REASON)
@@ -220,6 +272,17 @@ export async function declineClaim(
 			entity: 'claim',
 			entityId: input.claimId,
 			detail: { reason }
+		});
+		const buyer = await claimBuyer(trx, input.claimId);
+		await queueMail(trx, {
+			kind: 'claim_decided',
+			to: buyer.email,
+			name: buyer.name,
+			orderNumber: buyer.order_number,
+			outcome: 'decline',
+			note: reason,
+			reshipOrderNumber: null,
+			orderUrl: customerOrderUrl(links, buyer.order_number)
 		});
 		return { ok: true };
 	});
@@ -260,7 +323,7 @@ export async function reshipClaim(
 	actor: DecisionActor,
 	input: { claimId: number; note: string },
 	source: ForecastSource,
-	options: { now?: Date; today?: IsoDate } = {}
+	options: { now?: Date; today?: IsoDate; links?: ClaimLinks } = {}
 ): Promise<
 	{ ok: true; orderId: number; orderNumber: string; check: OrderCheckOutcome } | ClaimRefusal
 > {
@@ -344,6 +407,17 @@ export async function reshipClaim(
 					entity: 'claim',
 					entityId: input.claimId,
 					detail: { reshipOrderId: order.id, orderNumber }
+				});
+				const buyer = await claimBuyer(trx, input.claimId);
+				await queueMail(trx, {
+					kind: 'claim_decided',
+					to: buyer.email,
+					name: buyer.name,
+					orderNumber: buyer.order_number,
+					outcome: 'reship',
+					note: input.note.trim(),
+					reshipOrderNumber: orderNumber,
+					orderUrl: customerOrderUrl(options.links ?? defaultLinks(), buyer.order_number)
 				});
 				return { ok: true, orderId: order.id, orderNumber };
 			}

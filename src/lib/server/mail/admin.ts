@@ -39,7 +39,10 @@ const kindLabels: Record<MailKind, string> = {
 	waitlist_ready: 'Waitlist: species ready',
 	order_receipt: 'Order receipt',
 	refund_issued: 'Refund sent',
-	refund_failed: 'Refund failed (admins)'
+	refund_failed: 'Refund failed (admins)',
+	claim_received: 'Claim received',
+	claim_filed: 'Claim waiting (admins)',
+	claim_decided: 'Claim decided'
 };
 
 export function mailKindLabel(kind: string): string {

@@ -14,6 +14,19 @@ import { renderMail, type MailMessage } from './templates';
 export type { MailMessage, MailKind, RenderedMail } from './templates';
 export type { MailConfig } from './config';
 
+/** The addresses of the shop's admins who can sign in, for mail that asks the owner to act. */
+export async function adminAddresses(db: Kysely<Database>): Promise<string[]> {
+	const rows = await db
+		.selectFrom('user_role')
+		.innerJoin('User', 'User.id', 'user_role.user_id')
+		.select('User.email')
+		.where('user_role.role', '=', 'admin')
+		.where('user_role.disabled_at', 'is', null)
+		.orderBy('User.email')
+		.execute();
+	return rows.map((row) => row.email);
+}
+
 /** Stored last_error is for a person to read in the admin list; keep it short. */
 const LAST_ERROR_MAX = 500;
 

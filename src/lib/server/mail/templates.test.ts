@@ -91,6 +91,33 @@ const oneOfEach: MailMessage[] = [
 		amountCents: 1800,
 		stripeRefundId: 're_test_1',
 		orderUrl: 'https://shop.example.com/manage/orders/HL-10013'
+	},
+	{
+		kind: 'claim_received',
+		to: 'ada@example.com',
+		name: 'Ada',
+		orderNumber: 'HL-10013',
+		lines: [{ description: 'Rubber ducky isopods, juvenile', deadCount: 2 }],
+		photoCount: 1,
+		orderUrl: 'https://shop.example.com/account/orders/HL-10013'
+	},
+	{
+		kind: 'claim_filed',
+		to: 'wren@mossback.example.com',
+		orderNumber: 'HL-10013',
+		customer: 'Ada Lind, ada@example.com',
+		deadCount: 2,
+		claimUrl: 'https://shop.example.com/admin/claims/4'
+	},
+	{
+		kind: 'claim_decided',
+		to: 'ada@example.com',
+		name: 'Ada',
+		orderNumber: 'HL-10013',
+		outcome: 'reship',
+		note: 'Two more from the same clutch.',
+		reshipOrderNumber: 'HL-10020',
+		orderUrl: 'https://shop.example.com/account/orders/HL-10013'
 	}
 ];
 
@@ -352,5 +379,62 @@ describe('order receipt', () => {
 		expect(mail.text).toContain('live-arrival guarantee');
 		expect(mail.text).toContain("Your state's rules");
 		expect(mail.text).toContain('Care sheet.');
+	});
+});
+
+describe('claim mail', () => {
+	const find = <K extends MailMessage['kind']>(kind: K) =>
+		oneOfEach.find(
+			(message): message is Extract<MailMessage, { kind: K }> => message.kind === kind
+		)!;
+
+	it('tells the buyer the claim is in, with the dead counts and that shipping is not refunded', () => {
+		const mail = renderMail(find('claim_received'), shop);
+		expect(mail.subject).toBe('Mossback Hollow Inverts has your claim on order HL-10013');
+		expect(mail.text).toContain('2 dead: Rubber ducky isopods, juvenile');
+		expect(mail.text).toContain('with 1 photo:');
+		// PRODUCT.md's guarantee defaults (common practice): shipping cost is not refunded.
+		expect(mail.text).toContain('Shipping is not refunded');
+		expect(mail.text).toContain('https://shop.example.com/account/orders/HL-10013');
+	});
+
+	it('names the customer and escapes their stored name in the admin alert', () => {
+		const mail = renderMail(find('claim_filed'), shop);
+		expect(mail.subject).toBe('Mossback Hollow Inverts: a DOA claim on HL-10013 waits for you');
+		expect(mail.text).toContain('Ada Lind, ada@example.com filed a dead-on-arrival claim');
+		expect(mail.text).toContain('for 2 animals, with photos.');
+		const marked = renderMail({ ...find('claim_filed'), customer: 'Ada <img src=x>' }, shop);
+		expect(marked.html).toContain('Ada &lt;img src=x&gt;');
+		expect(marked.html).not.toContain('<img src=x>');
+	});
+
+	it('names the no-charge reship order, and gives a decline its reason', () => {
+		const reship = renderMail(find('claim_decided'), shop);
+		expect(reship.subject).toBe(
+			'Mossback Hollow Inverts will send your animals again (order HL-10013)'
+		);
+		expect(reship.text).toContain('at no charge, as order HL-10020.');
+		expect(reship.text).toContain('From the shop: Two more from the same clutch.');
+		const decline = renderMail(
+			{
+				...find('claim_decided'),
+				outcome: 'decline',
+				note: 'The parcel was refused at the first attempt.',
+				reshipOrderNumber: null
+			},
+			shop
+		);
+		expect(decline.subject).toBe('Mossback Hollow Inverts declined your claim on order HL-10013');
+		expect(decline.text).toContain('Why: The parcel was refused at the first attempt.');
+		expect(decline.text).not.toContain('no charge');
+	});
+
+	it('says a claim refund settles the claim, and a plain refund does not', () => {
+		const plain = renderMail(find('refund_issued'), shop);
+		expect(plain.text).not.toContain('your claim');
+		const claim = renderMail({ ...find('refund_issued'), forClaim: true }, shop);
+		expect(claim.text).toContain('We have looked at your claim on order HL-10013');
+		// 1800 cents is $18.00: USD has two minor units (ISO 4217).
+		expect(claim.text).toContain('We have sent $18.00 back');
 	});
 });

@@ -104,6 +104,8 @@ export type MailMessage =
 			remainingCents: number;
 			reason: string;
 			lines: { description: string; quantity: number }[];
+			/** The refund settles the buyer's dead-on-arrival claim: the mail says the claim is decided. */
+			forClaim?: boolean;
 	  }
 	/** To the shop's admins: a refund the card network turned back; the amount counts as held again. */
 	| {
@@ -112,6 +114,38 @@ export type MailMessage =
 			orderNumber: string;
 			amountCents: number;
 			stripeRefundId: string;
+			orderUrl: string;
+	  }
+	/** To the buyer: their dead-on-arrival claim is in, and what happens next. */
+	| {
+			kind: 'claim_received';
+			to: string;
+			name: string | null;
+			orderNumber: string;
+			lines: { description: string; deadCount: number }[];
+			photoCount: number;
+			orderUrl: string;
+	  }
+	/** To the shop's admins: a claim waits for a decision. */
+	| {
+			kind: 'claim_filed';
+			to: string;
+			orderNumber: string;
+			customer: string;
+			deadCount: number;
+			claimUrl: string;
+	  }
+	/** To the buyer: the claim was settled by sending the animals again, or declined. */
+	| {
+			kind: 'claim_decided';
+			to: string;
+			name: string | null;
+			orderNumber: string;
+			outcome: 'reship' | 'decline';
+			/** The admin's words: the reason for a decline, or a note with the reship. */
+			note: string;
+			/** The new no-charge order of a reship. */
+			reshipOrderNumber: string | null;
 			orderUrl: string;
 	  };
 
@@ -129,7 +163,10 @@ export const MAIL_KINDS = [
 	'waitlist_ready',
 	'order_receipt',
 	'refund_issued',
-	'refund_failed'
+	'refund_failed',
+	'claim_received',
+	'claim_filed',
+	'claim_decided'
 ] as const satisfies readonly MailKind[];
 
 export interface RenderedMail {
@@ -673,6 +710,15 @@ export function renderMail(message: MailMessage, shop: MailShop): RenderedMail {
 					preview: `${amount} is on its way back to the card you paid with.`,
 					greeting: hello(message.name),
 					before: [
+						...(message.forClaim
+							? [
+									[
+										'We have looked at your claim on order ',
+										{ strong: order },
+										' and are refunding the animals that arrived dead. We are sorry they did not make it.'
+									] satisfies Paragraph
+								]
+							: []),
 						[
 							'We have sent ',
 							{ strong: amount },
@@ -720,6 +766,113 @@ export function renderMail(message: MailMessage, shop: MailShop): RenderedMail {
 					button: { label: 'Open the order', url: checkedLink(message.orderUrl) },
 					after: [],
 					footnote: `${sentTo} You get it because you are an admin of this shop.`
+				},
+				shopName
+			);
+		}
+		case 'claim_received': {
+			const order = oneLine(message.orderNumber);
+			const lines: Paragraph[] = message.lines.map((line) => [
+				`${line.deadCount} dead: ${oneLine(line.description)}`
+			]);
+			const photos = message.photoCount === 1 ? '1 photo' : `${message.photoCount} photos`;
+			return renderLetter(
+				{
+					subject: `${shopName} has your claim on order ${order}`,
+					preview: 'We have your report and photos; the shop decides and e-mails you.',
+					greeting: hello(message.name),
+					before: [
+						[
+							'We are sorry some of your animals arrived dead. We have your claim on order ',
+							{ strong: order },
+							` with ${photos}:`
+						],
+						...lines,
+						[
+							'The shop looks at every claim itself and decides between a refund for the animals that died and sending them again. We e-mail you the decision; you can follow it on your order page.'
+						],
+						[
+							'Shipping is not refunded under the live-arrival guarantee. Please keep the box and the animals for a few days in case we ask a question.'
+						]
+					],
+					button: { label: 'See your order', url: checkedLink(message.orderUrl) },
+					after: [],
+					footnote: `${sentTo} You get it because you filed a claim on this order.`
+				},
+				shopName
+			);
+		}
+		case 'claim_filed': {
+			const order = oneLine(message.orderNumber);
+			const animals = message.deadCount === 1 ? '1 animal' : `${message.deadCount} animals`;
+			return renderLetter(
+				{
+					subject: `${shopName}: a DOA claim on ${order} waits for you`,
+					preview: `${oneLine(message.customer)} reports ${animals} dead on arrival.`,
+					greeting: 'Hello,',
+					before: [
+						[
+							{ strong: oneLine(message.customer) },
+							' filed a dead-on-arrival claim on order ',
+							{ strong: order },
+							` for ${animals}, with photos.`
+						],
+						[
+							'Look at the photos, the ship check and the weather on the delivery day, then refund, send again or decline with a reason.'
+						]
+					],
+					button: { label: 'Open the claim', url: checkedLink(message.claimUrl) },
+					after: [],
+					footnote: `${sentTo} You get it because you are an admin of this shop.`
+				},
+				shopName
+			);
+		}
+		case 'claim_decided': {
+			const order = oneLine(message.orderNumber);
+			const note = oneLine(message.note);
+			const before: Paragraph[] =
+				message.outcome === 'reship'
+					? [
+							[
+								'We have looked at your claim on order ',
+								{ strong: order },
+								' and will send the animals that arrived dead again, at no charge',
+								message.reshipOrderNumber
+									? `, as order ${oneLine(message.reshipOrderNumber)}.`
+									: '.'
+							],
+							...(note ? [['From the shop: ', note] satisfies Paragraph] : []),
+							[
+								'It ships on the first day the forecast on the route is safe, like any order; we e-mail you the ship date once it is set.'
+							]
+						]
+					: [
+							[
+								'We have looked at your claim on order ',
+								{ strong: order },
+								' and cannot accept it.'
+							],
+							['Why: ', note],
+							[
+								'If you think we have this wrong, reply to this e-mail with what we missed and we will look again.'
+							]
+						];
+			return renderLetter(
+				{
+					subject:
+						message.outcome === 'reship'
+							? `${shopName} will send your animals again (order ${order})`
+							: `${shopName} declined your claim on order ${order}`,
+					preview:
+						message.outcome === 'reship'
+							? 'A no-charge order replaces the animals that arrived dead.'
+							: note,
+					greeting: hello(message.name),
+					before,
+					button: { label: 'See your order', url: checkedLink(message.orderUrl) },
+					after: [],
+					footnote: `${sentTo} You get it because you filed a claim on this order.`
 				},
 				shopName
 			);

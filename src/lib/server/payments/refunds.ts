@@ -10,7 +10,7 @@ import type { Db } from '$lib/server/db';
 import type { Database, OrderState, RefundStatus } from '$lib/server/db/schema';
 import { writeAudit, type Actor } from '$lib/server/audit';
 import { moveOrder, noteOrder, type OrderActor } from '$lib/server/orders/transitions';
-import { queueMail } from '$lib/server/mail';
+import { adminAddresses, queueMail } from '$lib/server/mail';
 import { stateAfterRefund } from '$lib/orders/state-machine';
 import { lineRefundCents } from '$lib/orders/refund-amount';
 import { formatCents } from '$lib/format/money';
@@ -415,7 +415,8 @@ async function settle(
 		amountCents: prepared.amountCents,
 		remainingCents: Math.max(0, order.paid_cents - refundedCents),
 		reason: input.reason.trim(),
-		lines: lines.map((l) => ({ description: l.description, quantity: l.quantity }))
+		lines: lines.map((l) => ({ description: l.description, quantity: l.quantity })),
+		forClaim: input.claimId !== undefined
 	});
 }
 
@@ -609,18 +610,10 @@ export async function refundTurnedBack(
 			restoredTo
 		}
 	});
-	const admins = await trx
-		.selectFrom('user_role')
-		.innerJoin('User', 'User.id', 'user_role.user_id')
-		.select('User.email')
-		.where('user_role.role', '=', 'admin')
-		.where('user_role.disabled_at', 'is', null)
-		.orderBy('User.email')
-		.execute();
-	for (const admin of admins)
+	for (const admin of await adminAddresses(trx))
 		await queueMail(trx, {
 			kind: 'refund_failed',
-			to: admin.email,
+			to: admin,
 			orderNumber: order.order_number,
 			amountCents: refund.amount_cents,
 			stripeRefundId: stripeRefund.id,
