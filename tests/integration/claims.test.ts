@@ -57,7 +57,7 @@ describe('claims', () => {
 	let owner: SessionUser;
 	let stranger: SessionUser;
 	let order: { id: number; order_number: string };
-	let lines: { id: number; quantity: number }[];
+	let lines: { id: number; quantity: number; unit_size: number }[];
 	let jpegWithGps: Buffer;
 	const now = new Date();
 	const actorOf = (user: SessionUser) => ({ userId: user.id, ip: '127.0.0.1' });
@@ -120,7 +120,7 @@ describe('claims', () => {
 		stranger = { ...other, role: 'customer' };
 		lines = await scratch.db
 			.selectFrom('order_line')
-			.select(['id', 'quantity'])
+			.select(['id', 'quantity', 'unit_size'])
 			.where('order_id', '=', order.id)
 			.where('is_live', '=', true)
 			.orderBy('id')
@@ -183,10 +183,17 @@ describe('claims', () => {
 		const tooMany = await fileClaim(
 			scratch.db,
 			actorOf(owner),
-			filing({ lines: [{ orderLineId: lines[0]!.id, deadCount: lines[0]!.quantity + 1 }] }),
+			// Dead counts are animals: a line of groups sent quantity × unit size of them.
+			filing({
+				lines: [
+					{ orderLineId: lines[0]!.id, deadCount: lines[0]!.quantity * lines[0]!.unit_size + 1 }
+				]
+			}),
 			now
 		);
 		expect(tooMany).toMatchObject({ ok: false, status: 400, field: 'lines' });
+		const sent = lines[0]!.quantity * lines[0]!.unit_size;
+		if (!tooMany.ok) expect(tooMany.problem).toContain(`so at most ${sent} can be claimed`);
 		const noPhoto = await fileClaim(scratch.db, actorOf(owner), filing({ photos: [] }), now);
 		expect(noPhoto).toMatchObject({ ok: false, status: 400, field: 'photos' });
 		const notImage = await fileClaim(

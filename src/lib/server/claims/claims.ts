@@ -3,16 +3,17 @@
 // after delivery, with the dead counts per line and photos of the animals as they
 // arrived; the shop then decides. Photos go through the upload module, which
 // strips their metadata.
-import { formatShopDateTime } from '$lib/format/dates';
+import { claimWindowProblem } from '$lib/claims/window';
 import type { IsoDate } from '$lib/format/dates';
 import { sql, type Kysely } from 'kysely';
 import { writeAudit, type Actor } from '../audit';
 import type { Db } from '../db/connect';
-import type { Database } from '../db/schema';
+import type { ClaimState, Database } from '../db/schema';
 import { adminAddresses, queueMail } from '../mail';
 import { moveOrder } from '../orders/transitions';
 import { checkOrder, type OrderCheckOutcome } from '../shipping/order-checks';
-import { savePhotos, type UploadedPhotoFile } from '../uploads/photos';
+import type { ClientPhoto } from '$lib/photos/urls';
+import { listPhotos, savePhotos, type UploadedPhotoFile } from '../uploads/photos';
 import type { ForecastSource } from '../weather/source';
 
 export type ClaimRefusal = {
@@ -30,6 +31,8 @@ export interface FileClaimInput {
 	photos: readonly UploadedPhotoFile[];
 }
 
+export { claimWindowProblem };
+
 export const MIN_DECLINE_REASON = 10;
 
 /** Where the links in claim mail point: the shop's public origin, e.g. https://shop.example.com. */
@@ -43,22 +46,6 @@ const defaultLinks = (): ClaimLinks => ({
 const customerOrderUrl = (links: ClaimLinks, orderNumber: string) =>
 	`${links.origin}/account/orders/${encodeURIComponent(orderNumber)}`;
 const notFound: ClaimRefusal = { ok: false, status: 404, problem: 'Order not found.' };
-
-/**
- * Whether a claim filed at `now` is inside the window after delivery, and if not,
- * the sentence that says so with the delivery time in the shop's zone.
- */
-export function claimWindowProblem(
-	deliveredAt: Date,
-	now: Date,
-	windowHours: number,
-	timeZone: string
-): string | null {
-	const closesAt = deliveredAt.getTime() + windowHours * 3_600_000;
-	if (now.getTime() <= closesAt && now.getTime() >= deliveredAt.getTime()) return null;
-	const hours = windowHours === 1 ? '1 hour' : `${windowHours} hours`;
-	return `Claims are taken within ${hours} of delivery; this order was delivered at ${formatShopDateTime(deliveredAt, timeZone)}.`;
-}
 
 /**
  * Files a claim for the actor's own delivered order. Nothing is written when any
@@ -131,7 +118,7 @@ export async function fileClaim(
 
 			const orderLines = await trx
 				.selectFrom('order_line')
-				.select(['id', 'quantity', 'is_live', 'description'])
+				.select(['id', 'quantity', 'unit_size', 'is_live', 'description'])
 				.where('order_id', '=', order.id)
 				.execute();
 			const byId = new Map(orderLines.map((l) => [l.id, l]));
@@ -144,12 +131,14 @@ export async function fileClaim(
 						field: 'lines',
 						problem: 'That line is not one of this order’s animals.'
 					};
-				if (!Number.isInteger(line.deadCount) || line.deadCount > known.quantity)
+				// Counted in animals: a line of 3 groups of 10 sent 30.
+				const sent = known.quantity * known.unit_size;
+				if (!Number.isInteger(line.deadCount) || line.deadCount > sent)
 					return {
 						ok: false,
 						status: 400,
 						field: 'lines',
-						problem: `${known.description}: at most ${known.quantity} can be claimed.`
+						problem: `${known.description}: ${sent === 1 ? '1 animal was' : `${sent} animals were`} sent, so at most ${sent} can be claimed.`
 					};
 			}
 
@@ -366,15 +355,17 @@ export async function reshipClaim(
 				await trx
 					.insertInto('order_line')
 					.values(
+						// Dead counts are animals, so the reship sends them one by one.
 						dead.map((l) => ({
 							order_id: order.id,
 							listing_id: l.listing_id,
 							clutch_id: l.clutch_id,
 							species_id: l.species_id,
-							description: l.description,
+							description:
+								l.unit_size > 1 ? `${l.description} (replacements, one by one)` : l.description,
 							stage: l.stage,
 							sex: l.sex,
-							unit_size: l.unit_size,
+							unit_size: 1,
 							quantity: l.dead_count,
 							line_total_cents: 0,
 							is_live: l.is_live
@@ -443,4 +434,59 @@ async function nextReshipNumber(trx: Kysely<Database>): Promise<string> {
 		)
 		.executeTakeFirstOrThrow();
 	return `HL-${BigInt(row.top) + 1n}`;
+}
+
+/** A claim as its customer reads it on the order page: no staff names. */
+export type CustomerClaim = {
+	id: number;
+	state: ClaimState;
+	filedAt: Date;
+	decidedAt: Date | null;
+	decisionNote: string;
+	note: string;
+	lines: { description: string; deadCount: number }[];
+	refundCents: number | null;
+	reshipOrderNumber: string | null;
+	photos: ClientPhoto[];
+};
+
+/** The claims filed on one order, newest first, with their photos and decisions. */
+export async function claimsOfOrder(
+	db: Kysely<Database>,
+	orderId: number
+): Promise<CustomerClaim[]> {
+	const rows = await db
+		.selectFrom('claim')
+		.leftJoin('refund', 'refund.id', 'claim.refund_id')
+		.leftJoin('customer_order as reship', 'reship.id', 'claim.reship_order_id')
+		.select([
+			'claim.id',
+			'claim.state',
+			'claim.filed_at',
+			'claim.decided_at',
+			'claim.decision_note',
+			'claim.note',
+			'refund.amount_cents',
+			'reship.order_number as reship_number'
+		])
+		.where('claim.order_id', '=', orderId)
+		.orderBy('claim.id', 'desc')
+		.execute();
+	return Promise.all(
+		rows.map(async (row) => ({
+			id: row.id,
+			state: row.state,
+			filedAt: row.filed_at,
+			decidedAt: row.decided_at,
+			decisionNote: row.decision_note,
+			note: row.note,
+			lines: (await claimDeadLines(db, row.id)).map((l) => ({
+				description: l.description,
+				deadCount: l.dead_count
+			})),
+			refundCents: row.amount_cents,
+			reshipOrderNumber: row.reship_number,
+			photos: await listPhotos(db, { kind: 'claim', id: row.id })
+		}))
+	);
 }

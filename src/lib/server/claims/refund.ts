@@ -14,17 +14,18 @@ export async function suggestedClaimRefundCents(
 	claimId: number
 ): Promise<number> {
 	const dead = await claimDeadLines(db, claimId);
+	// Dead counts are animals; a line's price is spread over every animal it sent.
 	return suggestedRefundCents(
 		dead.map((l) => ({
-			line: { quantity: l.quantity, lineTotalCents: l.line_total_cents },
+			line: { quantity: l.quantity * l.unit_size, lineTotalCents: l.line_total_cents },
 			quantity: l.dead_count
 		}))
 	);
 }
 
 /**
- * Settles an open claim with a refund of the dead lines (not restocked: they died),
- * by the amount given or the lines' share of their prices. The refund module talks to
+ * Settles an open claim with a refund for the dead animals (never restocked: they died),
+ * by the amount given or the dead animals' share of their lines' prices. The refund module talks to
  * Stripe; the claim is marked refunded with the refund's id once it is recorded.
  */
 export async function refundClaim(
@@ -42,14 +43,14 @@ export async function refundClaim(
 	if (!claim) return { ok: false, status: 404, problem: 'Claim not found.' };
 	if (claim.state !== 'open')
 		return { ok: false, status: 409, problem: 'This claim is not open any more.' };
-	const dead = await claimDeadLines(db, input.claimId);
+	// By amount, not by refund lines: refund lines count units (a group of 10 is one) and
+	// the claim counts animals; the claim keeps which lines it was for.
 	const refunded = await refundOrder(
 		db,
 		actor,
 		{
 			orderNumber: claim.order_number,
-			amountCents: input.amountCents,
-			lines: dead.map((l) => ({ orderLineId: l.id, quantity: l.dead_count, restock: false })),
+			amountCents: input.amountCents ?? (await suggestedClaimRefundCents(db, input.claimId)),
 			reason: input.note.trim() || 'Refund for animals that arrived dead.',
 			claimId: input.claimId
 		},

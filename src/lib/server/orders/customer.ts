@@ -3,7 +3,11 @@
 import type { Kysely } from 'kysely';
 import type { Database } from '../db/schema';
 import { customerActorWords } from '$lib/orders/timeline';
-import { latestShipCheck, orderTimeline } from './history';
+import { claimsOfOrder } from '../claims/claims';
+import { claimAvailability } from '$lib/claims/window';
+import { resolveShopTimeZone } from '../backoffice/settings';
+import type { Db } from '$lib/server/db';
+import { claimWindowHours, latestShipCheck, orderTimeline } from './history';
 
 export async function listOwnOrders(db: Kysely<Database>, userId: string) {
 	return db
@@ -42,7 +46,7 @@ export async function ownOrder(db: Kysely<Database>, userId: string, orderNumber
 		.where('user_id', '=', userId)
 		.executeTakeFirst();
 	if (!order) return null;
-	const [lines, events, shipCheck] = await Promise.all([
+	const [lines, events, shipCheck, claims] = await Promise.all([
 		db
 			.selectFrom('order_line')
 			.select(['id', 'description', 'quantity', 'unit_size', 'line_total_cents', 'is_live'])
@@ -50,7 +54,8 @@ export async function ownOrder(db: Kysely<Database>, userId: string, orderNumber
 			.orderBy('id')
 			.execute(),
 		orderTimeline(db, order.id),
-		latestShipCheck(db, order.id)
+		latestShipCheck(db, order.id),
+		claimsOfOrder(db, order.id)
 	]);
 	const { id: _id, ...visible } = order;
 	// Staff names and e-mails stay on the server: the customer reads "the shop", "payment", "you".
@@ -62,5 +67,36 @@ export async function ownOrder(db: Kysely<Database>, userId: string, orderNumber
 		note: event.note,
 		at: event.at
 	}));
-	return { ...visible, lines, events: history, shipCheck };
+	return { ...visible, lines, events: history, shipCheck, claims };
+}
+
+/**
+ * A customer's order with what its page needs around it: the shop's zone, the claim
+ * window and whether a claim can be filed now. Null when the order is not theirs.
+ */
+export async function ownOrderWithClaimWindow(
+	db: Db,
+	userId: string,
+	orderNumber: string,
+	zoneFallback: string | undefined,
+	now: Date = new Date()
+) {
+	const order = await ownOrder(db, userId, orderNumber);
+	if (!order) return null;
+	const [timeZone, windowHours] = await Promise.all([
+		resolveShopTimeZone(db, zoneFallback),
+		claimWindowHours(db)
+	]);
+	const availability = claimAvailability(
+		{
+			state: order.state,
+			deliveredAt: order.delivered_at ? new Date(order.delivered_at) : null,
+			hasLive: order.lines.some((line) => line.is_live),
+			hasOpenClaim: order.claims.some((claim) => claim.state === 'open')
+		},
+		now,
+		windowHours,
+		timeZone
+	);
+	return { order, timeZone, windowHours, availability };
 }
