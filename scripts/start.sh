@@ -68,7 +68,7 @@ wait_for_port "$WEATHER_FAKE_PORT" "${FAKE_PIDS[-1]}" "the forecast fake"
 
 if [ "$STRIPE_FAKE_WANTED" = "1" ]; then
 	say "starting the local Stripe stand-in on http://127.0.0.1:$STRIPE_FAKE_PORT (events to $STRIPE_WEBHOOK_URL)…"
-	node_modules/.bin/tsx tests/fakes/stripe-fake.ts &
+	STRIPE_FAKE_DEMO_DATABASE_URL="$DATABASE_URL" node_modules/.bin/tsx tests/fakes/stripe-fake.ts &
 	FAKE_PIDS+=($!)
 	wait_for_port "$STRIPE_FAKE_PORT" "${FAKE_PIDS[-1]}" "the Stripe stand-in"
 fi

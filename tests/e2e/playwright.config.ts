@@ -81,7 +81,9 @@ export default defineConfig({
 				STRIPE_FAKE_PORT: String(stripePort),
 				STRIPE_SECRET_KEY: stripeSecretKey,
 				STRIPE_WEBHOOK_SECRET: stripeWebhookSecret,
-				STRIPE_WEBHOOK_URL: `${baseURL}/api/stripe/webhook`
+				STRIPE_WEBHOOK_URL: `${baseURL}/api/stripe/webhook`,
+				// The seeded demo orders' payments, so the admin can refund them in the browser tests.
+				STRIPE_FAKE_DEMO_DATABASE_URL: process.env.DATABASE_URL ?? ''
 			}
 		},
 		{

@@ -5,7 +5,46 @@
 //
 // env: STRIPE_FAKE_PORT (2595), STRIPE_WEBHOOK_URL (where events go), STRIPE_WEBHOOK_SECRET
 // (signs them), STRIPE_SECRET_KEY (the one key it accepts); it listens on 127.0.0.1 only.
-import { DEFAULT_API_KEY, DEFAULT_WEBHOOK_SECRET, startStripeFake } from './stripe/server';
+// STRIPE_FAKE_DEMO_DATABASE_URL: a shop database whose settled card payments (the seeded
+// demo orders') the stand-in should know, so the admin can refund them as in real life.
+import { sql } from 'kysely';
+import { createDb } from '../../src/lib/server/db/connect';
+import {
+	DEFAULT_API_KEY,
+	DEFAULT_WEBHOOK_SECRET,
+	startStripeFake,
+	type StripeFake
+} from './stripe/server';
+
+/** Teaches the stand-in the shop's succeeded card payments, less their succeeded refunds. */
+async function adoptShopPayments(fake: StripeFake, databaseUrl: string): Promise<number> {
+	const db = createDb(databaseUrl, 1);
+	try {
+		const rows = await db
+			.selectFrom('payment')
+			.select([
+				'payment.stripe_payment_intent_id',
+				'payment.amount_cents',
+				'payment.currency',
+				sql<string>`coalesce((select sum(r.amount_cents) from refund r where r.payment_id = payment.id and r.status = 'succeeded'), 0)`.as(
+					'refunded'
+				)
+			])
+			.where('payment.status', '=', 'succeeded')
+			.where('payment.stripe_payment_intent_id', 'is not', null)
+			.execute();
+		for (const row of rows)
+			fake.adoptPayment({
+				id: row.stripe_payment_intent_id as string,
+				amount: row.amount_cents,
+				currency: row.currency.toLowerCase(),
+				amountRefunded: Math.min(Number(row.refunded), row.amount_cents)
+			});
+		return rows.length;
+	} finally {
+		await db.destroy();
+	}
+}
 
 function portFrom(value: string | undefined, fallback: number): number {
 	if (value === undefined || value.trim() === '') return fallback;
@@ -37,6 +76,11 @@ async function main(): Promise<void> {
 	console.log(
 		`[stripe-fake] API and pay pages on ${fake.url}; events to ${webhookUrl ?? '(no webhook URL set)'}`
 	);
+	const shopDatabase = setting(process.env.STRIPE_FAKE_DEMO_DATABASE_URL);
+	if (shopDatabase) {
+		const known = await adoptShopPayments(fake, shopDatabase);
+		console.log(`[stripe-fake] knows ${known} card payment(s) already in the shop's database`);
+	}
 	let stopping = false;
 	const stop = (signal: string) => {
 		if (stopping) return;

@@ -473,6 +473,32 @@ describe('the local Stripe stand-in through the stripe package', () => {
 		).rejects.toMatchObject({ statusCode: 404, code: 'resource_missing' });
 	});
 
+	it('knows a payment made before it started (a seeded order’s) and refunds only what is left of it', async () => {
+		// $117.00 paid, $20.00 already refunded: 11700 and 2000 cents (USD has two minor units, ISO 4217).
+		const adopted = await control('/test/payment-intents', {
+			id: 'pi_test_demo_10002',
+			amount: 11700,
+			amountRefunded: 2000
+		});
+		expect(adopted.status).toBe(200);
+		expect(await stripe.paymentIntents.retrieve('pi_test_demo_10002')).toMatchObject({
+			object: 'payment_intent',
+			amount: 11700,
+			currency: 'usd',
+			status: 'succeeded'
+		});
+		await expect(
+			stripe.refunds.create({ payment_intent: 'pi_test_demo_10002', amount: 9701 })
+		).rejects.toMatchObject({ code: 'amount_too_large' });
+		const refund = await stripe.refunds.create({
+			payment_intent: 'pi_test_demo_10002',
+			amount: 9700
+		});
+		expect(refund).toMatchObject({ status: 'succeeded', amount: 9700 });
+		const bad = await control('/test/payment-intents', { id: 'ch_not_an_intent', amount: 100 });
+		expect(bad.status).toBe(400);
+	});
+
 	it('retries a delivery the receiver answers with 500', async () => {
 		receiver.answers.push(500);
 		const session = await createSession();

@@ -27,6 +27,9 @@
 //   POST /test/sessions/:id/pay         {card} pay without the browser (402 with the decline)
 //   POST /test/sessions/:id/async-payment-failed   completes unpaid, then the delayed payment fails
 //   POST /test/refunds/:id/fail         the refund fails later (refund.updated, money back on the charge)
+//   POST /test/payment-intents          {id, amount, currency?, amountRefunded?} a card payment made
+//                                       before this fake started (the demo's seeded orders), so it
+//                                       can be looked up and refunded
 // GET /health answers while it runs.
 import { randomBytes } from 'node:crypto';
 import { createServer, type IncomingMessage, type ServerResponse } from 'node:http';
@@ -108,6 +111,14 @@ export interface StripeErrorBody {
 	param?: string;
 }
 
+/** A succeeded card payment the fake did not take itself; amounts in cents (USD's minor unit). */
+export interface AdoptedPayment {
+	id: string;
+	amount: number;
+	currency?: string;
+	amountRefunded?: number;
+}
+
 export interface StripeFake {
 	/** Base URL of the API and the pay pages. */
 	url: string;
@@ -123,6 +134,8 @@ export interface StripeFake {
 	pay(sessionId: string, card: string): PayResult;
 	failAsyncPayment(sessionId: string): Json;
 	failRefund(refundId: string): Json;
+	/** Know a succeeded card payment made elsewhere (a seeded order's), so it can be refunded. */
+	adoptPayment(payment: AdoptedPayment): Json;
 	/** Deliver an event again, `times` times (one after another unless `concurrent`). */
 	redeliver(
 		eventId: string,
@@ -290,6 +303,15 @@ const control = {
 		order: z.union([z.enum(['created', 'reverse']), z.array(z.string())]).optional()
 	}),
 	mode: z.object({ mode: z.enum(['ok', 'fail', 'close']) }),
+	adopt: z.object({
+		id: z.string().regex(/^pi_[A-Za-z0-9_]{1,240}$/),
+		amount: z.number().int().min(1),
+		currency: z
+			.string()
+			.regex(/^[a-z]{3}$/)
+			.optional(),
+		amountRefunded: z.number().int().min(0).optional()
+	}),
 	pay: z.object({ card: z.string().max(40) })
 };
 
@@ -691,6 +713,54 @@ export async function startStripeFake(options: StripeFakeOptions): Promise<Strip
 		session.customer_details = { email: session.customer_email, name: null, phone: null };
 		emit('checkout.session.completed', session);
 		return { paid: true, session: snapshot(session) };
+	}
+
+	function adoptPayment(payment: AdoptedPayment): Json {
+		const refunded = payment.amountRefunded ?? 0;
+		if (refunded > payment.amount)
+			throw invalid('amountRefunded is more than the amount.', 'amountRefunded');
+		const currency = payment.currency ?? 'usd';
+		const known = paymentIntents.get(payment.id);
+		if (known) return snapshot(known);
+		const chargeId = stripeId('ch_');
+		const paymentIntent: Json = {
+			id: payment.id,
+			object: 'payment_intent',
+			amount: payment.amount,
+			amount_capturable: 0,
+			amount_received: payment.amount,
+			canceled_at: null,
+			capture_method: 'automatic_async',
+			created: seconds(),
+			currency,
+			last_payment_error: null,
+			latest_charge: chargeId,
+			livemode: false,
+			metadata: {},
+			payment_method: stripeId('pm_'),
+			payment_method_types: ['card'],
+			status: 'succeeded'
+		};
+		charges.set(chargeId, {
+			id: chargeId,
+			object: 'charge',
+			amount: payment.amount,
+			amount_captured: payment.amount,
+			amount_refunded: refunded,
+			balance_transaction: stripeId('txn_'),
+			captured: true,
+			created: seconds(),
+			currency,
+			livemode: false,
+			metadata: {},
+			paid: true,
+			payment_intent: payment.id,
+			payment_method_details: { type: 'card', card: { brand: 'visa', last4: '4242' } },
+			refunded: refunded === payment.amount,
+			status: 'succeeded'
+		});
+		paymentIntents.set(payment.id, paymentIntent);
+		return snapshot(paymentIntent);
 	}
 
 	function failAsyncPayment(sessionId: string): Json {
@@ -1106,6 +1176,14 @@ export async function startStripeFake(options: StripeFakeOptions): Promise<Strip
 		if ((match = /^POST \/test\/sessions\/([^/]+)\/async-payment-failed$/.exec(route))) {
 			return sendJson(response, 200, failAsyncPayment(first(match)));
 		}
+		if (route === 'POST /test/payment-intents') {
+			const body = await readControl(
+				request,
+				control.adopt,
+				'{"id": "pi_…", "amount": 1200, "currency"?: "usd", "amountRefunded"?: 0}'
+			);
+			return sendJson(response, 200, adoptPayment(body));
+		}
 		if ((match = /^POST \/test\/refunds\/([^/]+)\/fail$/.exec(route))) {
 			return sendJson(response, 200, failRefund(first(match)));
 		}
@@ -1172,6 +1250,7 @@ export async function startStripeFake(options: StripeFakeOptions): Promise<Strip
 		pay,
 		failAsyncPayment,
 		failRefund,
+		adoptPayment,
 		redeliver(eventId, settings = {}) {
 			const record = events.get(eventId);
 			if (!record) return Promise.reject(new Error(`No event ${eventId}`));
