@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { describeFiledAfter, formatDuration, hoursBetween, insideWindow } from './timing';
+import { describeFiledAfter, formatDuration, hoursBetween } from './timing';
 
 // 1 h = 60 min = 3600 s (the SI Brochure's and NIST SP 811's table of units accepted for
 // use with the SI; cited from memory). Instants are built with Date.UTC, not our code.
@@ -21,15 +21,6 @@ describe('hoursBetween', () => {
 		const saturdayNoon = new Date('2026-10-31T12:00:00-04:00');
 		const sundayNoon = new Date('2026-11-01T12:00:00-05:00');
 		expect(hoursBetween(saturdayNoon, sundayNoon)).toBe(25);
-	});
-});
-
-describe('insideWindow', () => {
-	it('takes the window’s last instant and refuses anything after it or before delivery', () => {
-		expect(insideWindow(2, 2)).toBe(true);
-		expect(insideWindow(2 + 1 / 3_600_000, 2)).toBe(false);
-		expect(insideWindow(0, 2)).toBe(true);
-		expect(insideWindow(-0.1, 2)).toBe(false);
 	});
 });
 

@@ -8,11 +8,6 @@ export function hoursBetween(from: Date, to: Date): number {
 	return (to.getTime() - from.getTime()) / MS_PER_HOUR;
 }
 
-/** Whether a claim `hours` after delivery was inside a window of `windowHours` (its end included, as filing allows). */
-export function insideWindow(hours: number, windowHours: number): boolean {
-	return hours >= 0 && hours <= windowHours;
-}
-
 /** "40 min", "1 h 10 min", "2 h", "1 day 3 h": rounded to the minute. */
 export function formatDuration(hours: number): string {
 	const minutes = Math.round(Math.abs(hours) * 60);

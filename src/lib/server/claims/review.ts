@@ -7,6 +7,7 @@ import { sql } from 'kysely';
 import { deliveryDayWeather, type DeliveryWeather } from '$lib/claims/delivery-weather';
 import { CLAIM_LIST_LIMIT, type ClaimListFilters } from '$lib/claims/list-filters';
 import { hoursBetween } from '$lib/claims/timing';
+import { claimWindowProblem } from '$lib/claims/window';
 import { todayInZone, type IsoDate } from '$lib/format/dates';
 import { lineRefundCents } from '$lib/orders/refund-amount';
 import { resolveShopTimeZone } from '../backoffice/settings';
@@ -153,8 +154,12 @@ export interface ClaimReview {
 	deadLines: Array<{
 		orderLineId: number;
 		description: string;
+		/** Animals, not units: a group of 5 counts 5. */
 		deadCount: number;
+		/** Units sold on the line (groups, for a group listing). */
 		quantity: number;
+		/** Animals the line sent: units × animals per unit. */
+		animals: number;
 		lineTotalCents: number;
 		/** The dead animals' share of the line's price, as the refund suggestion counts it. */
 		deadShareCents: number;
@@ -162,6 +167,8 @@ export interface ClaimReview {
 	/** Hours from delivery to filing; null when the order has no delivery time. */
 	hoursAfterDelivery: number | null;
 	windowHours: number;
+	/** Whether it was filed inside the window, by the rule filing uses; null without a delivery time. */
+	filedInsideWindow: boolean | null;
 	/** The delivery day in the shop's zone. */
 	deliveredOn: IsoDate | null;
 	/** Null when no ship check cleared the order to ship. */
@@ -263,6 +270,8 @@ export async function claimForReview(
 				inputs: check.inputs
 			}
 		: null;
+	// The shop's default window when the settings row is missing (PRODUCT.md: 2 hours).
+	const windowHours = setting?.claim_window_hours ?? 2;
 	const deliveredOn = row.delivered_at ? todayInZone(timeZone, row.delivered_at) : null;
 	const weather: DeliveryWeather = shipCheck
 		? deliveryDayWeather(shipCheck.inputs, { deliveredOn, plannedOn: shipCheck.deliveryDate })
@@ -310,20 +319,27 @@ export async function claimForReview(
 				isLive: line.is_live
 			}))
 		},
-		deadLines: dead.map((line) => ({
-			orderLineId: line.id,
-			description: line.description,
-			deadCount: line.dead_count,
-			quantity: line.quantity,
-			lineTotalCents: line.line_total_cents,
-			deadShareCents: lineRefundCents(
-				{ quantity: line.quantity, lineTotalCents: line.line_total_cents },
-				line.dead_count
-			)
-		})),
+		deadLines: dead.map((line) => {
+			const animals = line.quantity * line.unit_size;
+			return {
+				orderLineId: line.id,
+				description: line.description,
+				deadCount: line.dead_count,
+				quantity: line.quantity,
+				animals,
+				lineTotalCents: line.line_total_cents,
+				// Spread over every animal the line sent, as suggestedClaimRefundCents spreads it.
+				deadShareCents: lineRefundCents(
+					{ quantity: animals, lineTotalCents: line.line_total_cents },
+					line.dead_count
+				)
+			};
+		}),
 		hoursAfterDelivery: row.delivered_at ? hoursBetween(row.delivered_at, row.filed_at) : null,
-		// The shop's default window when the settings row is missing (PRODUCT.md: 2 hours).
-		windowHours: setting?.claim_window_hours ?? 2,
+		windowHours,
+		filedInsideWindow: row.delivered_at
+			? claimWindowProblem(row.delivered_at, row.filed_at, windowHours, timeZone) === null
+			: null,
 		deliveredOn,
 		shipCheck,
 		weather,
