@@ -121,6 +121,7 @@ describe('access matrix', () => {
 		expect(urls).toContain('/manage');
 		expect(urls).toContain('/admin');
 		expect(urls).toContain('/admin/users');
+		expect(urls).toContain('/admin/claims');
 		expect(urls).toContain('/api/health');
 	});
 
