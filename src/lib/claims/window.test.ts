@@ -25,6 +25,11 @@ describe('claim availability', () => {
 			why: 'Claims can be filed once the order is delivered.',
 			closesAt: null
 		});
+		// A part refund after delivery leaves the window open; a full refund closes it.
+		expect(claimAvailability({ ...order, state: 'part_refunded' }, now, 2, zone).canFile).toBe(
+			true
+		);
+		expect(claimAvailability({ ...order, state: 'refunded' }, now, 2, zone).canFile).toBe(false);
 		expect(claimAvailability({ ...order, hasOpenClaim: true }, now, 2, zone)).toMatchObject({
 			canFile: false,
 			why: 'This order already has a claim waiting for the shop.'

@@ -5,6 +5,9 @@ import { formatShopDateTime } from '$lib/format/dates';
 
 const HOUR_MS = 3_600_000;
 
+/** A delivered order, or one part refunded after delivery (a refund must not shut the window). */
+export const CLAIMABLE_STATES: readonly string[] = ['delivered', 'part_refunded'];
+
 /**
  * Whether a claim filed at `now` is inside the window after delivery, and if not,
  * the sentence that says so with the delivery time in the shop's zone.
@@ -33,7 +36,7 @@ export function claimAvailability(
 ): ClaimAvailability {
 	if (!order.hasLive)
 		return { canFile: false, why: 'The guarantee covers live animals only.', closesAt: null };
-	if (order.state !== 'delivered' || !order.deliveredAt)
+	if (!CLAIMABLE_STATES.includes(order.state) || !order.deliveredAt)
 		return {
 			canFile: false,
 			why: 'Claims can be filed once the order is delivered.',

@@ -3,7 +3,7 @@
 // after delivery, with the dead counts per line and photos of the animals as they
 // arrived; the shop then decides. Photos go through the upload module, which
 // strips their metadata.
-import { claimWindowProblem } from '$lib/claims/window';
+import { CLAIMABLE_STATES, claimWindowProblem } from '$lib/claims/window';
 import type { IsoDate } from '$lib/format/dates';
 import { sql, type Kysely } from 'kysely';
 import { writeAudit, type Actor } from '../audit';
@@ -20,7 +20,7 @@ export type ClaimRefusal = {
 	ok: false;
 	status: 400 | 404 | 409;
 	/** The form field the problem belongs beside, when it is one field's. */
-	field?: 'lines' | 'photos' | 'note' | 'reason';
+	field?: 'lines' | 'photos' | 'note' | 'reason' | 'amount';
 	problem: string;
 };
 
@@ -86,7 +86,7 @@ export async function fileClaim(
 				.forUpdate()
 				.executeTakeFirst();
 			if (!order) return notFound;
-			if (order.state !== 'delivered' || !order.delivered_at)
+			if (!CLAIMABLE_STATES.includes(order.state) || !order.delivered_at)
 				return {
 					ok: false,
 					status: 409,
@@ -144,7 +144,12 @@ export async function fileClaim(
 
 			const claim = await trx
 				.insertInto('claim')
-				.values({ order_id: order.id, user_id: actor.userId, note: input.note.trim() })
+				.values({
+					order_id: order.id,
+					user_id: actor.userId,
+					note: input.note.trim(),
+					filed_at: now
+				})
 				.returning('id')
 				.executeTakeFirstOrThrow();
 			await trx

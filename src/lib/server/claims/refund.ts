@@ -60,7 +60,12 @@ export async function refundClaim(
 		return {
 			ok: false,
 			status: 400,
-			field: refunded.field === 'reason' ? 'reason' : undefined,
+			field:
+				refunded.field === 'reason'
+					? 'reason'
+					: refunded.field === 'amountCents'
+						? 'amount'
+						: undefined,
 			problem: refunded.problem
 		};
 	const settled = await db.transaction().execute(async (trx) => {

@@ -98,16 +98,6 @@ export const actions: Actions = {
 		const amountCents = refundCentsOf(form.data);
 		const review = await claimForReview(db, claimId);
 		if (!review) error(404, notFound);
-		// Said beside the box before Stripe is asked; the refund module checks it again under its lock.
-		if (amountCents !== undefined) {
-			const left = await refundableCents(db, review.order.number);
-			if (amountCents > left)
-				return setError(
-					form,
-					'amount',
-					`At most ${formatCents(left)} can still be refunded on ${review.order.number}.`
-				);
-		}
 		try {
 			const outcome = await refundClaim(
 				db,
@@ -116,6 +106,7 @@ export const actions: Actions = {
 			);
 			if (!outcome.ok) {
 				if (outcome.field === 'reason') return setError(form, 'note', outcome.problem);
+				if (outcome.field === 'amount') return setError(form, 'amount', outcome.problem);
 				return message(form, said(false, outcome.problem), { status: outcome.status });
 			}
 			return message(
