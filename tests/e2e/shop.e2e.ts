@@ -2,20 +2,11 @@
 // its care sheet, add five of a listing and see the tier price, ask for the ship date to
 // a hot ZIP and see the cold pack, sign in and find the cart kept. Axe finds no serious
 // or critical problem on the pages on the way.
-import AxeBuilder from '@axe-core/playwright';
-import { expect, test, type Page } from '@playwright/test';
+import { expect, test } from '@playwright/test';
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../seed/accounts';
+import { axeProblems } from './axe';
 
 const artifacts = 'tests/artifacts';
-
-async function axeProblems(page: Page): Promise<string[]> {
-	const result = await new AxeBuilder({ page })
-		.withTags(['wcag2a', 'wcag2aa', 'wcag21aa'])
-		.analyze();
-	return result.violations
-		.filter((v) => v.impact === 'serious' || v.impact === 'critical')
-		.map((v) => `${v.id} (${v.impact}): ${v.nodes.map((n) => n.target.join(' ')).join(', ')}`);
-}
 
 test('a guest finds, reads about and reserves captive-bred stock, then signs in and keeps the cart', async ({
 	page

@@ -15,6 +15,7 @@ import { formatCents } from '$lib/format/money';
 import { requireRole } from '$lib/server/auth/guard';
 import { resolveShopTimeZone } from '$lib/server/backoffice/settings';
 import { getDb } from '$lib/server/db';
+import { claimsOfOrder } from '$lib/server/claims/claims';
 import { keeperOrder } from '$lib/server/orders/keeper';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -27,6 +28,12 @@ export const load: PageServerLoad = async (event) => {
 	]);
 	if (!order) error(404, 'No order has that number.');
 	const { id: orderId, user_id, events, ...visible } = order;
+	const claims = (await claimsOfOrder(db, orderId)).map((claim) => ({
+		id: claim.id,
+		state: claim.state,
+		filedAt: claim.filedAt,
+		dead: claim.lines.reduce((sum, line) => sum + line.deadCount, 0)
+	}));
 	// Money and refunds are the owner's: a keeper's page never loads them.
 	const refunds =
 		me.role === 'admin'
@@ -73,6 +80,7 @@ export const load: PageServerLoad = async (event) => {
 			}))
 		},
 		showMoney: me.role === 'admin',
+		claims,
 		refunds,
 		timeZone
 	};
