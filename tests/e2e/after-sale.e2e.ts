@@ -53,14 +53,15 @@ test('a buyer reports two dead animals with a photo, and the admin refunds them'
 }, info) => {
 	test.skip(info.project.name !== 'desktop', 'changes money: runs once, at desktop width');
 	test.setTimeout(90_000);
-	// HL-10004 is Ines's delivered order of four groups of five bumblebee millipedes ($120.00).
+	// HL-10003 is Marisol's delivered order of three groups of five bumblebee millipedes
+	// ($90.00). Marisol is the demo customer no other browser test signs in as or changes.
 	// Marking delivery is the fulfilment screens' job; here the carrier "delivered" it a
 	// quarter of an hour ago, inside the demo's 2-hour window (PRODUCT.md's default).
 	const client = new pg.Client({ connectionString: process.env.DATABASE_URL });
 	await client.connect();
 	try {
 		await client.query(
-			`update customer_order set delivered_at = now() - interval '15 minutes' where order_number = 'HL-10004'`
+			`update customer_order set delivered_at = now() - interval '15 minutes' where order_number = 'HL-10003'`
 		);
 	} finally {
 		await client.end();
@@ -71,12 +72,12 @@ test('a buyer reports two dead animals with a photo, and the admin refunds them'
 		.jpeg()
 		.toBuffer();
 
-	await page.goto('/signin?next=%2Faccount%2Forders%2FHL-10004');
+	await page.goto('/signin?next=%2Faccount%2Forders%2FHL-10003');
 	const signIn = page.locator('form[action="?/password"]');
-	await signIn.getByLabel('E-mail').fill('ines.farrow@example.test');
+	await signIn.getByLabel('E-mail').fill('marisol.ocampo@example.com');
 	await signIn.getByLabel('Password').fill(DEMO_PASSWORD);
 	await signIn.getByRole('button', { name: 'Sign in' }).click();
-	await expect(page).toHaveURL(/\/account\/orders\/HL-10004$/);
+	await expect(page).toHaveURL(/\/account\/orders\/HL-10003$/);
 	await page.getByRole('link', { name: 'Report a loss' }).click();
 	await expect(
 		page.getByRole('heading', { level: 1, name: 'Report animals dead on arrival' })
@@ -98,25 +99,25 @@ test('a buyer reports two dead animals with a photo, and the admin refunds them'
 		.getByLabel('What you saw (optional)')
 		.fill('Two were curled and still when the cup was opened.');
 	await page.getByRole('button', { name: 'Send the claim' }).click();
-	await expect(page).toHaveURL(/\/account\/orders\/HL-10004\?claim=filed$/, { timeout: 20_000 });
+	await expect(page).toHaveURL(/\/account\/orders\/HL-10003\?claim=filed$/, { timeout: 20_000 });
 	await expect(page.getByText('The shop has your claim and photos')).toBeVisible();
 	await expect(page.getByRole('img', { name: 'Animals as they arrived' })).toBeVisible();
 	await page.screenshot({
 		path: `${artifacts}/claim-filed-${info.project.name}.png`,
 		fullPage: true
 	});
-	await openMail(page, 'ines.farrow@example.test', /has your claim on order HL-10004/);
+	await openMail(page, 'marisol.ocampo@example.com', /has your claim on order HL-10003/);
 
 	// The owner, in a browser of their own.
 	const ownerBrowser = await browser.newContext({ baseURL, viewport: page.viewportSize() });
 	const owner = await ownerBrowser.newPage();
 	await signInAsDemo(owner, 'admin', '/admin/claims');
-	await owner.getByRole('link', { name: 'Claim on HL-10004' }).click();
-	await expect(owner.getByRole('heading', { level: 1, name: 'Claim on HL-10004' })).toBeVisible();
+	await owner.getByRole('link', { name: 'Claim on HL-10003' }).click();
+	await expect(owner.getByRole('heading', { level: 1, name: 'Claim on HL-10003' })).toBeVisible();
 	await expect(owner.getByText(/Filed \d+ min after delivery/)).toBeVisible();
 	await expect(owner.getByText('Weather on the delivery day')).toBeVisible();
 	expect(await axeProblems(owner)).toEqual([]);
-	// 2 of the 20 animals a $120.00 line sent: $12.00, shipping not included.
+	// 2 of the 15 animals a $90.00 line sent: $12.00, shipping not included.
 	const refund = owner.getByLabel('Amount, in dollars');
 	await expect(refund).toHaveValue('12.00');
 	await owner.getByRole('button', { name: 'Refund through Stripe' }).click();
@@ -131,8 +132,8 @@ test('a buyer reports two dead animals with a photo, and the admin refunds them'
 	});
 	await ownerBrowser.close();
 
-	await openMail(page, 'ines.farrow@example.test', /sent back \$12\.00 for order HL-10004/);
-	await expect(page.getByText('We have looked at your claim on order HL-10004')).toBeVisible();
-	await page.goto('/account/orders/HL-10004');
+	await openMail(page, 'marisol.ocampo@example.com', /sent back \$12\.00 for order HL-10003/);
+	await expect(page.getByText('We have looked at your claim on order HL-10003')).toBeVisible();
+	await page.goto('/account/orders/HL-10003');
 	await expect(page.getByText(/^Refunded\s+\$12\.00 to the card you paid with/)).toBeVisible();
 });
