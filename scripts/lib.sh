@@ -93,6 +93,17 @@ ensure_node_modules() {
 }
 
 # Debian's chromium drives the browser tests and the screenshots; never a download.
+# The tests render PDF pages to images with pdftoppm to decode their QR codes.
+ensure_poppler() {
+	if command -v pdftoppm >/dev/null 2>&1; then return 0; fi
+	if [ "$(id -u)" -ne 0 ]; then
+		die "pdftoppm is missing: install Debian's package with 'sudo apt-get install poppler-utils' and run again."
+	fi
+	say "installing Debian's poppler-utils (apt-get)…"
+	apt-get update -qq
+	DEBIAN_FRONTEND=noninteractive apt-get install -y -qq poppler-utils >/dev/null
+}
+
 ensure_chromium() {
 	if [ -x /usr/bin/chromium ]; then return 0; fi
 	if [ "$(id -u)" -ne 0 ]; then

@@ -14,6 +14,7 @@ export SEED_TODAY="${TEST_SEED_TODAY:-2026-12-01}"
 
 ensure_node_modules
 ensure_chromium
+ensure_poppler
 
 STARTED_DB=0
 cleanup() {

@@ -146,8 +146,11 @@ export interface ShopSettingTable {
 	fee_two_day_cents: Generated<number>;
 	reservation_minutes: Generated<number>;
 	claim_window_hours: Generated<number>;
+	/** Packing slips and care cards print on US Letter or A4. */
+	slip_paper: Generated<SlipPaper>;
 	updated_at: UpdatedAt;
 }
+export type SlipPaper = 'letter' | 'a4';
 export interface SpeciesTable {
 	id: Id;
 	slug: string;
@@ -432,6 +435,37 @@ export interface ShipmentTable {
 	delivered_at: Timestamp | null;
 	created_by: string | null;
 	created_at: CreatedAt;
+	/** The ship check the box was packed on. */
+	ship_check_id: number | null;
+	/** Who marked it delivered: a keeper, or a carrier tracking update. */
+	delivered_by: 'keeper' | 'tracking' | null;
+	/** When the customer was told the box is late (once per shipment). */
+	late_notice_sent_at: Timestamp | null;
+}
+export type TrackingStatus = 'in_transit' | 'out_for_delivery' | 'delivered' | 'exception';
+export interface TrackingEventTable {
+	id: Id;
+	shipment_id: number | null;
+	carrier: string;
+	tracking_number: string;
+	status: TrackingStatus;
+	occurred_at: Timestamp;
+	received_at: CreatedAt;
+	detail: Generated<string>;
+}
+export type SlipBatchState = 'queued' | 'running' | 'done' | 'failed';
+export interface SlipBatchTable {
+	id: Id;
+	ship_on: DateOnly;
+	order_ids: number[];
+	paper: SlipPaper;
+	state: Generated<SlipBatchState>;
+	done_count: Generated<number>;
+	pdf: Uint8Array | null;
+	error: string | null;
+	created_by: string | null;
+	created_at: CreatedAt;
+	finished_at: Timestamp | null;
 }
 export interface PaymentTable {
 	id: Id;
@@ -579,6 +613,8 @@ export interface Database {
 	ship_check: ShipCheckTable;
 	forecast_cache: ForecastCacheTable;
 	shipment: ShipmentTable;
+	tracking_event: TrackingEventTable;
+	slip_batch: SlipBatchTable;
 	payment: PaymentTable;
 	payment_event: PaymentEventTable;
 	refund: RefundTable;
