@@ -44,7 +44,8 @@ const COLUMNS = [
 	'fee_overnight_cents',
 	'fee_two_day_cents',
 	'reservation_minutes',
-	'claim_window_hours'
+	'claim_window_hours',
+	'slip_paper'
 ] as const satisfies readonly (keyof ShopSettingValues)[];
 
 describe('shop settings', () => {

@@ -38,7 +38,8 @@ const demoRow: ShopSettingValues = {
 	fee_overnight_cents: 4500,
 	fee_two_day_cents: 2800,
 	reservation_minutes: 15,
-	claim_window_hours: 2
+	claim_window_hours: 2,
+	slip_paper: 'letter'
 };
 
 function demoForm(overrides: Partial<SettingsForm> = {}): SettingsForm {
@@ -293,6 +294,18 @@ describe('the rest of the form', () => {
 		expect(problems(demoForm({ reservationMinutes: 241 })).reservationMinutes).toBeTruthy();
 		expect(problems(demoForm({ claimWindowHours: 0 })).claimWindowHours).toBeTruthy();
 		expect(problems(demoForm({ claimWindowHours: 168 }))).toEqual({});
+	});
+
+	it('prints slips on US Letter or A4 only, Letter for a new shop', () => {
+		expect(problems(demoForm({ slipPaper: 'a4' }))).toEqual({});
+		expect(problems({ ...demoForm(), slipPaper: 'legal' }).slipPaper).toEqual([
+			'Choose US Letter or A4.'
+		]);
+		expect(settingValuesFromForm(demoForm({ slipPaper: 'a4' })).slip_paper).toBe('a4');
+		expect(newSettingsForm('America/New_York').slipPaper).toBe('letter');
+		expect(settingChanges(demoRow, { ...demoRow, slip_paper: 'a4' })).toEqual({
+			slip_paper: { from: 'letter', to: 'a4' }
+		});
 	});
 
 	it('turns a stored row into the form and back unchanged', () => {

@@ -6,7 +6,7 @@
 import { z } from 'zod';
 import { daysBetween, parseIsoDate, type IsoDate } from '$lib/format/dates';
 import { formatTemperature } from '$lib/format/temperature';
-import type { ShopSetting } from '$lib/server/db/schema';
+import type { ShopSetting, SlipPaper } from '$lib/server/db/schema';
 import type { ServiceLevel } from './calendar';
 import { DEFAULT_SHIP_WEEKDAYS, DEFAULT_THRESHOLDS, type ShipThresholds } from './defaults';
 
@@ -358,6 +358,14 @@ export function timeZoneOptions(
 	return [...US_TIME_ZONES, ...rest.map((zone) => ({ value: zone, label: zone }))];
 }
 
+// ---- packing slips
+
+/** The paper the slips and care cards print on; the label block is 4 × 6 in on either. */
+export const SLIP_PAPER_OPTIONS = [
+	{ value: 'letter', label: 'US Letter (8.5 × 11 in)' },
+	{ value: 'a4', label: 'A4 (210 × 297 mm)' }
+] as const satisfies readonly { value: SlipPaper; label: string }[];
+
 // ---- the form
 
 /** A required whole number in a range: one clear message per problem; empty is "required". */
@@ -438,7 +446,8 @@ export function settingsFormSchema(
 				required: 'Enter how long after delivery a claim may be filed.',
 				...claimWindowHours,
 				range: `Enter ${claimWindowHours.min} to ${claimWindowHours.max} hours (a week).`
-			})
+			}),
+			slipPaper: z.enum(['letter', 'a4'], { error: 'Choose US Letter or A4.' }).default('letter')
 		})
 		.superRefine((form, ctx) => {
 			// Zod runs this even when single fields failed, so only values valid on their own count.
@@ -478,7 +487,8 @@ export const FIELD_OF_COLUMN = {
 	fee_overnight_cents: 'feeOvernight',
 	fee_two_day_cents: 'feeTwoDay',
 	reservation_minutes: 'reservationMinutes',
-	claim_window_hours: 'claimWindowHours'
+	claim_window_hours: 'claimWindowHours',
+	slip_paper: 'slipPaper'
 } as const satisfies Record<keyof ShopSettingValues, SettingsFormField>;
 
 /** The four limits of a stored row, keyed as the form and the ship check name them. */
@@ -528,7 +538,8 @@ export function settingValuesFromForm(form: SettingsForm): ShopSettingValues {
 		fee_overnight_cents: cents(form.feeOvernight, 'feeOvernight'),
 		fee_two_day_cents: cents(form.feeTwoDay, 'feeTwoDay'),
 		reservation_minutes: required(form.reservationMinutes, 'reservationMinutes'),
-		claim_window_hours: required(form.claimWindowHours, 'claimWindowHours')
+		claim_window_hours: required(form.claimWindowHours, 'claimWindowHours'),
+		slip_paper: form.slipPaper
 	};
 }
 
@@ -549,7 +560,8 @@ export function settingsFormFromRow(row: ShopSettingValues, today: IsoDate): Set
 		feeOvernight: centsToDollarText(row.fee_overnight_cents),
 		feeTwoDay: centsToDollarText(row.fee_two_day_cents),
 		reservationMinutes: row.reservation_minutes,
-		claimWindowHours: row.claim_window_hours
+		claimWindowHours: row.claim_window_hours,
+		slipPaper: row.slip_paper
 	};
 }
 
@@ -589,7 +601,8 @@ export function newSettingsForm(timeZone: string): SettingsForm {
 			fee_overnight_cents: 4500,
 			fee_two_day_cents: 2800,
 			reservation_minutes: 15,
-			claim_window_hours: 2
+			claim_window_hours: 2,
+			slip_paper: 'letter'
 		},
 		'0000-01-01'
 	);

@@ -120,6 +120,8 @@ export function settingValueProblems(values: ShopSettingValues): SettingFieldErr
 		errors.reservationMinutes = `Enter ${reservationMinutes.min} to ${reservationMinutes.max} minutes.`;
 	if (!within(values.claim_window_hours, claimWindowHours))
 		errors.claimWindowHours = `Enter ${claimWindowHours.min} to ${claimWindowHours.max} hours.`;
+	if (values.slip_paper !== 'letter' && values.slip_paper !== 'a4')
+		errors.slipPaper = 'Choose US Letter or A4.';
 	return errors;
 }
 

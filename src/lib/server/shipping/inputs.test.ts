@@ -22,6 +22,7 @@ const settings: ShopSetting = {
 	fee_two_day_cents: 2800,
 	reservation_minutes: 30,
 	claim_window_hours: 2,
+	slip_paper: 'letter',
 	updated_at: new Date('2026-12-01T12:00:00Z')
 };
 
