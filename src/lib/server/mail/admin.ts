@@ -42,7 +42,9 @@ const kindLabels: Record<MailKind, string> = {
 	refund_failed: 'Refund failed (admins)',
 	claim_received: 'Claim received',
 	claim_filed: 'Claim waiting (admins)',
-	claim_decided: 'Claim decided'
+	claim_decided: 'Claim decided',
+	ship_notice: 'Ship notice',
+	delivery_late: 'Late delivery'
 };
 
 export function mailKindLabel(kind: string): string {

@@ -118,6 +118,36 @@ const oneOfEach: MailMessage[] = [
 		note: 'Two more from the same clutch.',
 		reshipOrderNumber: 'HL-10020',
 		orderUrl: 'https://shop.example.com/account/orders/HL-10013'
+	},
+	{
+		kind: 'ship_notice',
+		to: 'ada@example.com',
+		name: 'Ada',
+		orderNumber: 'HL-10012',
+		service: 'overnight',
+		carrier: 'USPS',
+		trackingNumber: '9400111202555842332669',
+		trackingUrl: 'https://tools.usps.com/go/TrackConfirmAction?tLabels=9400111202555842332669',
+		shippedOn: '2026-12-08',
+		expectedDeliveryOn: '2026-12-09',
+		packs: ['heat'],
+		facilityPickup: false,
+		hasLive: true,
+		claimWindowHours: 2,
+		orderUrl: 'https://shop.example.com/account/orders/HL-10012'
+	},
+	{
+		kind: 'delivery_late',
+		to: 'ada@example.com',
+		name: 'Ada',
+		orderNumber: 'HL-10009',
+		carrier: 'UPS',
+		trackingNumber: '1Z5R89390357567127',
+		trackingUrl: 'https://wwwapps.ups.com/WebTracking/track?track=yes&trackNums=1Z5R89390357567127',
+		expectedDeliveryOn: '2026-12-02',
+		hasLive: true,
+		claimWindowHours: 2,
+		orderUrl: 'https://shop.example.com/account/orders/HL-10009'
 	}
 ];
 
@@ -436,5 +466,91 @@ describe('claim mail', () => {
 		expect(claim.text).toContain('We have looked at your claim on order HL-10013');
 		// 1800 cents is $18.00: USD has two minor units (ISO 4217).
 		expect(claim.text).toContain('We have sent $18.00 back');
+	});
+});
+
+describe('ship notice and late delivery', () => {
+	const find = <K extends MailMessage['kind']>(kind: K) =>
+		oneOfEach.find(
+			(message): message is Extract<MailMessage, { kind: K }> => message.kind === kind
+		)!;
+
+	// Weekdays checked with GNU date: 2026-12-08 Tuesday, 2026-12-09 Wednesday, 2026-12-02 Wednesday.
+	it('says when and how the box left, the tracking link, the pack and what to do on arrival', () => {
+		const mail = renderMail(find('ship_notice'), shop);
+		expect(mail.subject).toBe('Your Mossback Hollow Inverts order HL-10012 has shipped');
+		expect(mail.text).toContain(
+			'left the shop on Tue, Dec 8, 2026 by USPS overnight service and should arrive on Wed, Dec 9, 2026.'
+		);
+		expect(mail.text).toContain(
+			'USPS tracking number: 9400111202555842332669 (follow it on the USPS site: https://tools.usps.com/go/TrackConfirmAction?tLabels=9400111202555842332669).'
+		);
+		expect(mail.html).toContain(
+			'href="https://tools.usps.com/go/TrackConfirmAction?tLabels=9400111202555842332669"'
+		);
+		expect(mail.text).toContain('travels with a heat pack');
+		expect(mail.text).not.toContain('cold pack, because');
+		// PRODUCT.md's arrival cautions: open at once, room temperature, photo first, the window.
+		for (const words of [
+			'Open it at once.',
+			'70–79 °F (21–26 °C)',
+			'before you move anything',
+			'within 2 hours of delivery',
+			'first delivery attempt and not redirected',
+			"Your state's rules.",
+			'USDA APHIS'
+		])
+			expect(mail.text).toContain(words);
+		const open = mail.text.indexOf('Open it at once');
+		expect(open).toBeLessThan(mail.text.indexOf('If one is dead, photo first'));
+	});
+
+	it('tells a hand-delivered box apart, with no tracking and no facility advice', () => {
+		const mail = renderMail(
+			{
+				...find('ship_notice'),
+				carrier: 'hand',
+				trackingNumber: null,
+				trackingUrl: null,
+				facilityPickup: true,
+				expectedDeliveryOn: '2026-12-08'
+			},
+			shop
+		);
+		expect(mail.subject).toBe('Your Mossback Hollow Inverts order HL-10012 is on its way by hand');
+		expect(mail.text).toContain('to be handed over in person, on Tue, Dec 8, 2026.');
+		expect(mail.text).not.toContain('tracking number');
+		expect(mail.text).not.toContain('carrier facility');
+	});
+
+	it('advises facility pickup when the check did, and skips the animal steps for supplies', () => {
+		const pickup = renderMail({ ...find('ship_notice'), facilityPickup: true, packs: [] }, shop);
+		expect(pickup.text).toContain('collect it that same day');
+		expect(pickup.text).not.toContain('pack, because');
+		const supplies = renderMail({ ...find('ship_notice'), hasLive: false, packs: [] }, shop);
+		expect(supplies.text).not.toContain('photo first');
+		expect(supplies.text).toContain('open it and check everything is there');
+	});
+
+	it('escapes a tracking number with markup in it', () => {
+		const mail = renderMail(
+			{ ...find('ship_notice'), trackingNumber: '<b>1Z</b>', trackingUrl: null },
+			shop
+		);
+		expect(mail.html).toContain('&lt;b&gt;1Z&lt;/b&gt;');
+		expect(mail.html).not.toContain('<b>1Z</b>');
+	});
+
+	it('tells a late box what to do, without redirecting it, and the claim window', () => {
+		const mail = renderMail(find('delivery_late'), shop);
+		expect(mail.subject).toBe('Your Mossback Hollow Inverts order HL-10009 is running late');
+		expect(mail.text).toContain('was due to arrive on Wed, Dec 2, 2026');
+		expect(mail.text).toContain('UPS tracking number: 1Z5R89390357567127');
+		expect(mail.text).toContain('do not have it sent to another address');
+		expect(mail.text).toContain('before you move anything');
+		expect(mail.text).toContain('within 2 hours of delivery');
+		expect(mail.text).toContain('Open it at once.');
+		const supplies = renderMail({ ...find('delivery_late'), hasLive: false }, shop);
+		expect(supplies.text).not.toContain('photo first');
 	});
 });

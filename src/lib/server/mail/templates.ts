@@ -8,6 +8,8 @@
 import { formatShopDate } from '../../format/dates';
 import { formatCents } from '../../format/money';
 import { shippingCautions } from '../../shipping/cautions';
+import { arrivalSteps } from '../../fulfilment/arrival';
+import { carrierLabels, type Carrier } from '../../fulfilment/carriers';
 
 /** Every e-mail the shop sends, as the data it is rendered from. */
 export type MailMessage =
@@ -147,6 +149,39 @@ export type MailMessage =
 			/** The new no-charge order of a reship. */
 			reshipOrderNumber: string | null;
 			orderUrl: string;
+	  }
+	/** The box has left: how it travels, how to follow it, and what to do when it comes. */
+	| {
+			kind: 'ship_notice';
+			to: string;
+			name: string | null;
+			orderNumber: string;
+			service: 'overnight' | 'two_day';
+			carrier: Carrier;
+			/** Null for hand delivery. */
+			trackingNumber: string | null;
+			trackingUrl: string | null;
+			shippedOn: string;
+			expectedDeliveryOn: string;
+			packs: ('heat' | 'cold')[];
+			facilityPickup: boolean;
+			hasLive: boolean;
+			claimWindowHours: number;
+			orderUrl: string;
+	  }
+	/** The box is past its expected delivery day and not reported delivered. */
+	| {
+			kind: 'delivery_late';
+			to: string;
+			name: string | null;
+			orderNumber: string;
+			carrier: Carrier;
+			trackingNumber: string | null;
+			trackingUrl: string | null;
+			expectedDeliveryOn: string;
+			hasLive: boolean;
+			claimWindowHours: number;
+			orderUrl: string;
 	  };
 
 export type MailKind = MailMessage['kind'];
@@ -166,7 +201,9 @@ export const MAIL_KINDS = [
 	'refund_failed',
 	'claim_received',
 	'claim_filed',
-	'claim_decided'
+	'claim_decided',
+	'ship_notice',
+	'delivery_late'
 ] as const satisfies readonly MailKind[];
 
 export interface RenderedMail {
@@ -353,6 +390,43 @@ function arrivalAndStateParagraphs(): Paragraph[] {
 	return shippingCautions
 		.filter((caution) => /live-arrival|rules/i.test(caution.title))
 		.map((caution) => [{ strong: `${caution.title}.` }, ` ${caution.text}`]);
+}
+
+/** What to do when the box comes, each step a paragraph with its title in bold. */
+function arrivalParagraphs(claimWindowHours: number): Paragraph[] {
+	return arrivalSteps(claimWindowHours).map((step) => [
+		{ strong: `${step.title}.` },
+		` ${step.text}`
+	]);
+}
+
+/** The buyer's own local rules come first; said with every box of live animals. */
+function stateRulesParagraphs(): Paragraph[] {
+	return shippingCautions
+		.filter((caution) => /rules/i.test(caution.title))
+		.map((caution) => [{ strong: `${caution.title}.` }, ` ${caution.text}`]);
+}
+
+/** "Tracking number: 1Z… (follow it on UPS's site)", or nothing for hand delivery. */
+function trackingParagraphs(message: {
+	carrier: Carrier;
+	trackingNumber: string | null;
+	trackingUrl: string | null;
+}): Paragraph[] {
+	if (message.carrier === 'hand' || !message.trackingNumber) return [];
+	const number = oneLine(message.trackingNumber);
+	const carrier = carrierLabels[message.carrier];
+	return [
+		message.trackingUrl
+			? [
+					`${carrier} tracking number: `,
+					{ strong: number },
+					' (',
+					{ link: `follow it on the ${carrier} site`, url: message.trackingUrl },
+					').'
+				]
+			: [`${carrier} tracking number: `, { strong: number }, '.']
+	];
 }
 
 /** "Desert millipede (Orthoporus ornatus)", or the scientific name alone when that is all there is. */
@@ -873,6 +947,117 @@ export function renderMail(message: MailMessage, shop: MailShop): RenderedMail {
 					button: { label: 'See your order', url: checkedLink(message.orderUrl) },
 					after: [],
 					footnote: `${sentTo} You get it because you filed a claim on this order.`
+				},
+				shopName
+			);
+		}
+		case 'ship_notice': {
+			const order = oneLine(message.orderNumber);
+			const left = calendarDay(message.shippedOn);
+			const arrives = calendarDay(message.expectedDeliveryOn);
+			const byHand = message.carrier === 'hand';
+			const how = byHand
+				? [
+						'Your order ',
+						{ strong: order },
+						` left the shop on ${left} to be handed over in person, on `,
+						{ strong: arrives },
+						'.'
+					]
+				: [
+						'Your order ',
+						{ strong: order },
+						` left the shop on ${left} by ${carrierLabels[message.carrier]} ${SERVICE_WORDS[message.service]} service and should arrive on `,
+						{ strong: arrives },
+						'.'
+					];
+			const packing: Paragraph[] = [];
+			if (message.packs.includes('heat'))
+				packing.push(['It travels with a heat pack, because the forecast on the route is cool.']);
+			if (message.packs.includes('cold'))
+				packing.push(['It travels with a cold pack, because the forecast on the route is hot.']);
+			if (message.facilityPickup && !byHand)
+				packing.push([
+					'The forecast where you are is close to the limit on the delivery day, so please have the box held at a staffed carrier facility for pickup rather than left at the door, and ',
+					{ strong: 'collect it that same day' },
+					'.'
+				]);
+			const onArrival: Paragraph[] = message.hasLive
+				? [
+						['When the box comes:'],
+						...arrivalParagraphs(message.claimWindowHours),
+						...stateRulesParagraphs()
+					]
+				: [['When the box comes, open it and check everything is there.']];
+			return renderLetter(
+				{
+					subject: byHand
+						? `Your ${shopName} order ${order} is on its way by hand`
+						: `Your ${shopName} order ${order} has shipped`,
+					preview: byHand
+						? `It is handed over in person on ${arrives}.`
+						: `It left on ${left} by ${carrierLabels[message.carrier]} and should arrive ${arrives}.`,
+					greeting: hello(message.name),
+					before: [
+						how,
+						...trackingParagraphs(message),
+						...packing,
+						...(message.hasLive
+							? [
+									[
+										'Please be there, or collect the box, on the delivery day: live animals should not wait in the box longer than they must.'
+									] satisfies Paragraph
+								]
+							: [])
+					],
+					button: { label: 'See your order', url: checkedLink(message.orderUrl) },
+					after: onArrival,
+					footnote: `${sentTo} You get it because your order has left the shop.`
+				},
+				shopName
+			);
+		}
+		case 'delivery_late': {
+			const order = oneLine(message.orderNumber);
+			const due = calendarDay(message.expectedDeliveryOn);
+			return renderLetter(
+				{
+					subject: `Your ${shopName} order ${order} is running late`,
+					preview: `It was due on ${due} and is not reported delivered yet. Here is what to do.`,
+					greeting: hello(message.name),
+					before: [
+						[
+							'Your order ',
+							{ strong: order },
+							` was due to arrive on ${due}, and it has not been reported delivered yet. A box is sometimes held up for a day; we are following it too.`
+						],
+						...trackingParagraphs(message),
+						['What to do now:'],
+						[
+							'– Follow the tracking for the latest scan, and keep an eye out for a delivery notice.'
+						],
+						[
+							'– If the carrier holds the box at a facility, collect it the same day: the animals are safest out of the box and indoors.'
+						],
+						[
+							'– Please do not have it sent to another address: a redirected box is outside the live-arrival guarantee. Reply to this e-mail first and we will sort it out with you.'
+						]
+					],
+					button: { label: 'See your order', url: checkedLink(message.orderUrl) },
+					after: [
+						...(message.hasLive
+							? [
+									['When the box comes:'] satisfies Paragraph,
+									...arrivalParagraphs(message.claimWindowHours)
+								]
+							: [
+									['When the box comes, open it and check everything is there.'] satisfies Paragraph
+								]),
+						[
+							'Reply to this e-mail if the tracking shows a problem, or if the box has still not come tomorrow.'
+						]
+					],
+					footnote: `${sentTo} You get it because your box is later than the carrier's expected day.`
 				},
 				shopName
 			);
