@@ -618,6 +618,16 @@ function orderStories(today: string): OrderStory[] {
 			shipOn: weekdayOnOrAfter(day(1), DEMO_SHOP.shipWeekdays.two_day)
 		},
 		{
+			// A second box on the same ship day, so the demo's next ship morning has two to pack.
+			number: 'HL-10015',
+			email: dagny,
+			service: 'overnight',
+			createdOn: day(-1),
+			lines: [['narceus-americanus-juveniles-nar-c1', 2]],
+			state: 'scheduled',
+			shipOn: weekdayOnOrAfter(day(1), DEMO_SHOP.shipWeekdays.overnight)
+		},
+		{
 			number: 'HL-10014',
 			email: jory,
 			service: 'overnight',

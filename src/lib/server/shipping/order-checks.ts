@@ -382,6 +382,18 @@ function skipped(orderId: number, why: SkipReason, message: string): OrderCheckO
 }
 
 /**
+ * The ship check as it would come out now for a route starting on `firstDate`, with
+ * nothing written: the ship-day page's look at whether a scheduled box still holds.
+ */
+export async function previewShipCheck(
+	db: Db,
+	source: ForecastSource,
+	route: { service: Service; destinationZip: string; firstDate: IsoDate }
+): Promise<ShipCheckResult> {
+	return shipCheck(await buildShipCheckInput(source, await settingsOf(db), route));
+}
+
+/**
  * Runs the ship check for one order in paid, scheduled or weather_hold and moves it:
  * a ship decision schedules it on the ship date, a hold puts it on weather hold with
  * no ship date. Writes the ship_check row (inputs snapshot, result, rule version),
