@@ -46,6 +46,10 @@ load_env() {
 	if ! grep -q '^STRIPE_API_PORT=' .env; then : "${STRIPE_API_PORT=$STRIPE_FAKE_PORT}"; fi
 	if ! grep -q '^STRIPE_API_PROTOCOL=' .env; then : "${STRIPE_API_PROTOCOL=http}"; fi
 	: "${STRIPE_WEBHOOK_URL:=http://127.0.0.1:$PORT/api/stripe/webhook}"
+	# Carrier tracking updates: the local carrier stand-in signs them with this shared secret and
+	# posts them to the app. A real deployment sets its own secret, agreed with its carrier feed.
+	: "${CARRIER_FAKE_PORT:=2597}" "${TRACKING_WEBHOOK_SECRET:=tracking_local_fake_hatchlot}"
+	: "${TRACKING_WEBHOOK_URL:=http://127.0.0.1:$PORT/api/shipments/tracking}"
 	# Photo uploads: adapter-node reads request bodies up to this size (its own default is 512K).
 	: "${BODY_SIZE_LIMIT:=64M}"
 	if [ -z "${AUTH_SECRET:-}" ]; then
@@ -59,6 +63,7 @@ load_env() {
 	export WEATHER_FAKE_PORT WEATHER_API_URL
 	export STRIPE_FAKE_PORT STRIPE_SECRET_KEY STRIPE_WEBHOOK_SECRET STRIPE_WEBHOOK_URL
 	export STRIPE_API_HOST STRIPE_API_PORT STRIPE_API_PROTOCOL
+	export CARRIER_FAKE_PORT TRACKING_WEBHOOK_SECRET TRACKING_WEBHOOK_URL
 	export HOST PORT PG_PORT PG_USER PG_PASSWORD PG_DATABASE PG_TEST_DATABASE PG_MANAGED SHOP_TIME_ZONE DATABASE_URL ORIGIN
 }
 

@@ -12,7 +12,7 @@ STRIPE_FAKE_WANTED=0
 stripe_fake_port=()
 [ "$STRIPE_FAKE_WANTED" = "1" ] && stripe_fake_port=("$STRIPE_FAKE_PORT")
 
-for taken in "$PORT" "$MAIL_CATCHER_SMTP_PORT" "$MAIL_CATCHER_HTTP_PORT" "$WEATHER_FAKE_PORT" "${stripe_fake_port[@]}"; do
+for taken in "$PORT" "$MAIL_CATCHER_SMTP_PORT" "$MAIL_CATCHER_HTTP_PORT" "$WEATHER_FAKE_PORT" "$CARRIER_FAKE_PORT" "${stripe_fake_port[@]}"; do
 	if port_in_use "$taken"; then
 		die "Port $taken on 127.0.0.1 is already taken (is Hatchlot running in another terminal?); stop that program or change the port in .env."
 	fi
@@ -72,6 +72,11 @@ if [ "$STRIPE_FAKE_WANTED" = "1" ]; then
 	FAKE_PIDS+=($!)
 	wait_for_port "$STRIPE_FAKE_PORT" "${FAKE_PIDS[-1]}" "the Stripe stand-in"
 fi
+
+say "starting the local carrier stand-in on http://127.0.0.1:$CARRIER_FAKE_PORT (tracking updates to $TRACKING_WEBHOOK_URL)…"
+node_modules/.bin/tsx tests/fakes/carrier-fake.ts &
+FAKE_PIDS+=($!)
+wait_for_port "$CARRIER_FAKE_PORT" "${FAKE_PIDS[-1]}" "the carrier stand-in"
 
 say "starting the app on http://$HOST:$PORT …"
 node build &

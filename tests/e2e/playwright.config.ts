@@ -16,6 +16,10 @@ const stripePort = 2596;
 export const stripeApi = `http://127.0.0.1:${stripePort}`;
 export const stripeSecretKey = 'sk_test_local_fake_e2e';
 export const stripeWebhookSecret = 'whsec_local_fake_e2e';
+// The e2e run's own carrier stand-in (POST /test/updates signs and posts a tracking update).
+const carrierPort = 2598;
+export const carrierApi = `http://127.0.0.1:${carrierPort}`;
+export const trackingWebhookSecret = 'tracking_local_fake_e2e';
 
 export default defineConfig({
 	testDir: '.',
@@ -87,6 +91,18 @@ export default defineConfig({
 			}
 		},
 		{
+			command: 'node_modules/.bin/tsx tests/fakes/carrier-fake.ts',
+			cwd: '../..',
+			url: `${carrierApi}/health`,
+			reuseExistingServer: false,
+			timeout: 30_000,
+			env: {
+				CARRIER_FAKE_PORT: String(carrierPort),
+				TRACKING_WEBHOOK_SECRET: trackingWebhookSecret,
+				TRACKING_WEBHOOK_URL: `${baseURL}/api/shipments/tracking`
+			}
+		},
+		{
 			command: 'node build',
 			cwd: '../..',
 			url: `${baseURL}/api/health`,
@@ -106,6 +122,7 @@ export default defineConfig({
 				STRIPE_API_HOST: '127.0.0.1',
 				STRIPE_API_PORT: String(stripePort),
 				STRIPE_API_PROTOCOL: 'http',
+				TRACKING_WEBHOOK_SECRET: trackingWebhookSecret,
 				SHOP_TIME_ZONE: 'America/New_York'
 			}
 		}
