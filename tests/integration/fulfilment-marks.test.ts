@@ -611,8 +611,19 @@ describe('ship-day marks', () => {
 		expect(customer).toMatchObject({ ok: false, status: 403 });
 	});
 
-	it('checks USPS numbers by their published format too', async () => {
+	it('checks USPS numbers by their published format too, and links a guest to the page after paying', async () => {
 		const order = await scheduledOrder('HL-20006');
+		// A guest's order (no account): its Checkout Session id is how the guest sees it.
+		await scratch.db
+			.insertInto('payment')
+			.values({
+				order_id: order.orderId,
+				stripe_checkout_session_id: 'cs_test_marks_20006',
+				stripe_payment_intent_id: 'pi_test_marks_20006',
+				amount_cents: 9500,
+				status: 'succeeded'
+			})
+			.execute();
 		await markPacked(scratch.db, actor('keeper'), { orders: [{ orderId: order.orderId }] });
 		const shipped = await markShipped(
 			scratch.db,
@@ -624,5 +635,10 @@ describe('ship-day marks', () => {
 			ok: true,
 			trackingUrl: `https://tools.usps.com/go/TrackConfirmAction?tLabels=${uspsNumber}`
 		});
+		const [notice] = await mailTo('HL-20006', 'ship_notice');
+		expect(notice?.text_body).toContain(
+			'http://shop.example.test/checkout/done?session_id=cs_test_marks_20006'
+		);
+		expect(notice?.text_body).not.toContain('/account/orders/HL-20006');
 	});
 });

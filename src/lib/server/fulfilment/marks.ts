@@ -114,12 +114,13 @@ type LockedOrder = {
 	service: Service;
 	email: string;
 	ship_name: string;
+	user_id: string | null;
 };
 
 async function lockOrder(trx: Trx, orderId: number): Promise<LockedOrder | undefined> {
 	return trx
 		.selectFrom('customer_order')
-		.select(['id', 'order_number', 'state', 'service', 'email', 'ship_name'])
+		.select(['id', 'order_number', 'state', 'service', 'email', 'ship_name', 'user_id'])
 		.where('id', '=', orderId)
 		.forUpdate()
 		.executeTakeFirst();
@@ -178,8 +179,25 @@ async function checkOf(trx: Trx, orderId: number, shipCheckId: number | null) {
 	return row;
 }
 
-function orderUrl(links: MarkLinks, orderNumber: string): string {
-	return `${links.origin.replace(/\/$/, '')}/account/orders/${encodeURIComponent(orderNumber)}`;
+/**
+ * Where the customer sees their order: their account's order page, or for a guest the
+ * page after paying, whose Checkout Session id is a guest's proof of the order.
+ */
+async function orderUrl(trx: Trx, links: MarkLinks, order: LockedOrder): Promise<string> {
+	const origin = links.origin.replace(/\/$/, '');
+	const account = `${origin}/account/orders/${encodeURIComponent(order.order_number)}`;
+	if (order.user_id) return account;
+	const payment = await trx
+		.selectFrom('payment')
+		.select('stripe_checkout_session_id')
+		.where('order_id', '=', order.id)
+		.where('status', '=', 'succeeded')
+		.orderBy('id', 'desc')
+		.limit(1)
+		.executeTakeFirst();
+	return payment
+		? `${origin}/checkout/done?session_id=${encodeURIComponent(payment.stripe_checkout_session_id)}`
+		: account;
 }
 
 function packWords(packs: readonly Pack[]): string {
@@ -503,7 +521,7 @@ export async function markShipped(
 			facilityPickup: check?.decision === 'ship' && check.facility_pickup,
 			hasLive: await hasLiveLine(trx, order.id),
 			claimWindowHours: settings.claimWindowHours,
-			orderUrl: orderUrl(links, order.order_number)
+			orderUrl: await orderUrl(trx, links, order)
 		});
 		return {
 			ok: true,
@@ -872,7 +890,7 @@ export async function sendLateNotice(
 			expectedDeliveryOn: shipment.expected_delivery_on,
 			hasLive: await hasLiveLine(trx, order.id),
 			claimWindowHours: settings.claimWindowHours,
-			orderUrl: orderUrl(links, order.order_number)
+			orderUrl: await orderUrl(trx, links, order)
 		});
 		await trx
 			.updateTable('shipment')
