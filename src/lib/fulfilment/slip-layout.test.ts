@@ -1,4 +1,4 @@
-import bwipjs from 'bwip-js';
+import bwipjs from 'bwip-js/node';
 import PDFDocument from 'pdfkit';
 import { describe, expect, it } from 'vitest';
 import {
@@ -9,7 +9,8 @@ import {
 	linearBars,
 	matrixRuns,
 	planSlipBody,
-	slipFrame
+	slipFrame,
+	unicodeRangeTest
 } from './slip-layout';
 
 /** The page size pdfkit (a general-purpose PDF library) gives a named paper. */
@@ -119,9 +120,7 @@ describe('codes as rectangles', () => {
 		const [symbol] = bwipjs.raw(
 			'qrcode',
 			'https://shop.example.com/account/orders/HL-10011/claim',
-			{
-				eclevel: 'M'
-			}
+			'eclevel=M'
 		) as { pixs: number[]; pixx: number; pixy: number }[];
 		const runs = matrixRuns(symbol!.pixs, symbol!.pixx);
 		expect(runs[0]).toEqual({ x: 0, y: 0, width: 7 });
@@ -173,5 +172,19 @@ describe('font runs', () => {
 
 	it('falls back to the first face for a character no face has', () => {
 		expect(fontRuns('a漢', [latin, latinExt])).toEqual([{ text: 'a漢', face: 0 }]);
+	});
+});
+
+describe('unicode ranges', () => {
+	it('reads the ranges, single points and wildcards of CSS Fonts Level 4', () => {
+		const covers = unicodeRangeTest('U+0000-00FF, U+0131,U+4??');
+		expect(covers(0x41)).toBe(true);
+		expect(covers(0xff)).toBe(true);
+		expect(covers(0x100)).toBe(false);
+		expect(covers(0x131)).toBe(true);
+		expect(covers(0x400)).toBe(true);
+		expect(covers(0x4ff)).toBe(true);
+		expect(covers(0x500)).toBe(false);
+		expect(() => unicodeRangeTest('0000-00FF')).toThrow(SyntaxError);
 	});
 });

@@ -26,10 +26,10 @@ export const LABEL_SIZE = { width: 4 * POINTS_PER_INCH, height: 6 * POINTS_PER_I
 
 /** A third of an inch: inside what office printers can reach on either paper. */
 export const PAGE_MARGIN = 24;
-const HEADER_HEIGHT = 46;
+const HEADER_HEIGHT = 40;
 const GUTTER = 14;
 /** Room under the label for the "cut along the dashed line" note. */
-const LABEL_NOTE_HEIGHT = 16;
+const LABEL_NOTE_HEIGHT = 12;
 
 export interface SlipFrame {
 	page: { width: number; height: number };
@@ -50,11 +50,11 @@ export function slipFrame(paper: SlipPaper): SlipFrame {
 	const page = PAPER_SIZES[paper];
 	const inner = page.width - 2 * PAGE_MARGIN;
 	const header = { x: PAGE_MARGIN, y: PAGE_MARGIN, width: inner, height: HEADER_HEIGHT };
-	const top = header.y + header.height + 8;
+	const top = header.y + header.height + 6;
 	const label = { x: PAGE_MARGIN, y: top, ...LABEL_SIZE };
 	const sideX = label.x + label.width + GUTTER;
 	const side = { x: sideX, y: top, width: page.width - PAGE_MARGIN - sideX, height: label.height };
-	const bodyY = label.y + label.height + LABEL_NOTE_HEIGHT + 6;
+	const bodyY = label.y + label.height + LABEL_NOTE_HEIGHT + 4;
 	const bottom = page.height - PAGE_MARGIN;
 	return {
 		page: { width: page.width, height: page.height },
@@ -232,4 +232,24 @@ export function fontRuns(
 export function fitScale(needed: number, room: number, preferred: number): number {
 	if (needed <= 0) return preferred;
 	return Math.min(preferred, room / needed);
+}
+
+/**
+ * A CSS `unicode-range` list ("U+0000-00FF,U+0131,U+4??") as a test for one code point
+ * (CSS Fonts Level 4, 4.5): the shipped font files say which characters each covers.
+ */
+export function unicodeRangeTest(ranges: string): (codePoint: number) => boolean {
+	const spans = ranges
+		.split(',')
+		.map((part) => part.trim())
+		.filter((part) => part !== '')
+		.map((part): [number, number] => {
+			const match = /^U\+([0-9A-F?]{1,6})(?:-([0-9A-F]{1,6}))?$/i.exec(part);
+			if (!match) throw new SyntaxError(`not a unicode-range: ${part}`);
+			const [, first, last] = match as unknown as [string, string, string | undefined];
+			if (first.includes('?'))
+				return [parseInt(first.replaceAll('?', '0'), 16), parseInt(first.replaceAll('?', 'F'), 16)];
+			return [parseInt(first, 16), parseInt(last ?? first, 16)];
+		});
+	return (codePoint) => spans.some(([low, high]) => codePoint >= low && codePoint <= high);
 }
