@@ -17,8 +17,17 @@ export const WAITLIST_NOTIFY_QUEUE = 'waitlist-notify';
 /** Each minute: stock holds past their time are released, and stale guest carts removed. */
 export const HOLD_EXPIRY_QUEUE = 'hold-expiry';
 
+/** One job per slip_batch row: a ship day's packing slips drawn into one PDF, with progress. */
+export const SLIP_BATCH_QUEUE = 'slip-batch';
+
 export interface MailSendJob {
 	outgoingMailId: number;
+}
+
+export interface SlipBatchJob {
+	slipBatchId: number;
+	/** The shop's public origin, for the claim links on the slips. */
+	origin: string;
 }
 
 export interface WaitlistNotifyJob {

@@ -28,12 +28,15 @@ import {
 	SHIP_RECHECK_QUEUE,
 	WAITLIST_NOTIFY_QUEUE,
 	HOLD_EXPIRY_QUEUE,
+	SLIP_BATCH_QUEUE,
 	setRunningBoss,
 	type MailSendJob,
+	type SlipBatchJob,
 	type WaitlistNotifyJob
 } from './boss';
 import type { WaitlistLinks } from '../waitlist/links';
 import { notifyWaitlist } from '../waitlist/worker';
+import { runSlipBatch } from '../fulfilment/slip-batches';
 
 export { getBoss, JOB_SCHEMA, MAIL_SEND_QUEUE, MAIL_SWEEP_QUEUE, SHIP_RECHECK_QUEUE } from './boss';
 
@@ -178,6 +181,15 @@ async function createQueues(
 		expireInSeconds: 600
 	};
 	await boss.createQueue(WAITLIST_NOTIFY_QUEUE, waitlistQueue);
+	const slipQueue: PgBoss.Queue = {
+		name: SLIP_BATCH_QUEUE,
+		// One more try after a failure that was not the orders' fault (the database away).
+		retryLimit: 1,
+		retryDelay: 30,
+		// A 1000-order batch draws in well under this on a small machine.
+		expireInSeconds: 900
+	};
+	await boss.createQueue(SLIP_BATCH_QUEUE, slipQueue);
 	// Reads already ignore expired holds; the sweep only tidies rows, so one run at a time.
 	await boss.createQueue(HOLD_EXPIRY_QUEUE, {
 		name: HOLD_EXPIRY_QUEUE,
@@ -269,6 +281,23 @@ async function startOnce(
 				log(`[holds] released ${swept.released}, removed ${swept.cartsRemoved} stale guest carts`);
 		});
 		await boss.schedule(HOLD_EXPIRY_QUEUE, HOLD_EXPIRY_CRON);
+		await boss.work<SlipBatchJob>(
+			SLIP_BATCH_QUEUE,
+			{ batchSize: 1, pollingIntervalSeconds: options.pollingIntervalSeconds ?? 2 },
+			async (jobs) => {
+				for (const job of jobs) {
+					const run = await runSlipBatch(db, job.data.slipBatchId, { origin: job.data.origin });
+					log(
+						`[slips] batch #${job.data.slipBatchId}: ` +
+							(run.outcome === 'done'
+								? `${run.pages} pages, ${run.bytes} bytes`
+								: run.outcome === 'failed'
+									? `failed (${run.reason})`
+									: `nothing to do (${run.why})`)
+					);
+				}
+			}
+		);
 		if (options.shipRecheck) await scheduleShipRecheck(boss, db, options.shipRecheck, log);
 		const waitlistLinks = options.waitlist;
 		if (waitlistLinks) {
