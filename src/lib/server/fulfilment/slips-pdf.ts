@@ -352,7 +352,7 @@ function kicker(sheet: Sheet, text: string, x: number, y: number, color: string 
 		size: 7.5,
 		weight: 'semibold',
 		color,
-		characterSpacing: 0.9,
+		characterSpacing: 0.35,
 		lineGap: 1
 	});
 }
@@ -385,7 +385,7 @@ function drawHeader(
 		size: 7.5,
 		weight: 'semibold',
 		color: COLOUR.loam,
-		characterSpacing: 0.9,
+		characterSpacing: 0.35,
 		align: 'right',
 		lineGap: 1
 	});
@@ -446,7 +446,7 @@ function drawLabel(sheet: Sheet, frame: SlipFrame, order: SlipOrder): void {
 		size: 13,
 		weight: 'bold',
 		color: COLOUR.white,
-		characterSpacing: 0.8
+		characterSpacing: 0.5
 	});
 	sheet.write(`Leaves ${day(order.shipDate)}`, x + 130, y + 8, width - 138, {
 		size: 8.5,
@@ -459,7 +459,7 @@ function drawLabel(sheet: Sheet, frame: SlipFrame, order: SlipOrder): void {
 	drawHandlingPanel(sheet, { x, y, width, height: 0 }, order.hasLive);
 
 	// The order number as text and as Code 128, at the foot of the label.
-	const codeHeight = 34;
+	const codeHeight = 40;
 	const foot = label.y + label.height - pad;
 	sheet.write(order.orderNumber, x, foot - 13, width, {
 		size: 10,
@@ -491,7 +491,7 @@ const LIVE_HANDLING: HandlingRule[] = [
 	{
 		icon: 'parcel',
 		title: 'Open as soon as it arrives',
-		detail: 'The animals have been in the dark since they left.'
+		detail: 'Check every animal the moment it comes.'
 	},
 	{ icon: 'up', title: 'This side up', detail: 'Carry it level and set it down gently.' }
 ];
@@ -523,7 +523,7 @@ function drawHandlingPanel(sheet: Sheet, area: Box, live: boolean): number {
 		weight: 'bold',
 		color: COLOUR.white,
 		align: 'center',
-		characterSpacing: 2.5,
+		characterSpacing: 1,
 		lineGap: 0
 	});
 	const subtitle = live ? 'Captive-bred invertebrates inside' : 'No live animals inside';
@@ -762,7 +762,7 @@ function drawTableHead(sheet: Sheet, x: number, y: number, columns: Column[]): v
 				size: 7.5,
 				weight: 'semibold',
 				color: COLOUR.loam,
-				characterSpacing: 0.6,
+				characterSpacing: 0.3,
 				align: column.align ?? 'left',
 				lineGap: 0
 			});
