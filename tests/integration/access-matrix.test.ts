@@ -147,7 +147,9 @@ describe('access matrix', () => {
 						if (response.status === 401 || response.status === 403 || where.startsWith('/signin'))
 							failures.push(`refused: ${label}`);
 					} else if (persona === 'anonymous') {
-						const pageRead = route.kind === 'page' && method === 'GET';
+						// A file route outside /api (a packing slip's PDF) is opened in a tab like a page.
+						const pageRead =
+							(route.kind === 'page' || !route.url.startsWith('/api/')) && method === 'GET';
 						const expected = pageRead
 							? response.status === 303 && where.startsWith('/signin?next=')
 							: response.status === 401;
