@@ -2,6 +2,8 @@
 // clicked a slip link gets a small page in the shop's look with the reason and a way
 // back; a script gets the same sentence as plain text. (The routes are +server.ts files,
 // since a page cannot answer with a PDF, so the refusal cannot use the app's error page.)
+import { readFileSync } from 'node:fs';
+import { createRequire } from 'node:module';
 import { icons, type IconName, type IconShape } from '$lib/components/icons';
 
 /** The PDF, shown in the browser's viewer (`inline`) or saved (`attachment`). */
@@ -44,9 +46,29 @@ export function wantsHtml(request: Request): boolean {
 	return /\btext\/html\b/.test(accept);
 }
 
+let faceRules: string | undefined;
+
+/** Source Sans 3 (regular and bold, Latin) inlined: this page stands outside the app's styles. */
+function fontFaces(): string {
+	if (faceRules !== undefined) return faceRules;
+	const require = createRequire(import.meta.url);
+	faceRules = (
+		[
+			[400, 'source-sans-3-latin-400-normal.woff2'],
+			[700, 'source-sans-3-latin-700-normal.woff2']
+		] as const
+	)
+		.map(([weight, file]) => {
+			const data = readFileSync(require.resolve(`@fontsource/source-sans-3/files/${file}`));
+			return `@font-face{font-family:"Source Sans 3";font-weight:${weight};font-display:swap;src:url(data:font/woff2;base64,${data.toString('base64')}) format("woff2")}`;
+		})
+		.join('\n');
+	return faceRules;
+}
+
 /**
- * A refusal: the status, one sentence, and for a browser a link back. The caution shape
- * sits beside the word "Not printed" so the state never rests on colour alone.
+ * A refusal: the status, one sentence, and for a browser a link back. Brick and the stop
+ * shape sit beside the words "Not printed", so the state never rests on colour alone.
  */
 export function refusalResponse(
 	request: Request,
@@ -66,20 +88,21 @@ export function refusalResponse(
 <meta name="viewport" content="width=device-width, initial-scale=1">
 <title>Not printed · Hatchlot</title>
 <style>
+${fontFaces()}
 body{margin:0;background:#faf7f0;color:#24221d;font:1.0625rem/1.65 "Source Sans 3",ui-sans-serif,system-ui,sans-serif}
 main{max-width:38rem;margin:3rem auto;padding:0 1.25rem}
-.notice{display:flex;gap:.75rem;align-items:flex-start;border:2px solid #bd7e14;background:#fdf6e4;border-radius:.75rem;padding:1rem 1.25rem}
+.notice{display:flex;gap:.75rem;align-items:flex-start;border:1px solid #d8826b;border-left-width:4px;background:#fbefeb;border-radius:.5rem;padding:1rem 1.25rem}
 h1{margin:0 0 .25rem;font-size:1.25rem;line-height:1.35}
 p{margin:0}
 a{display:inline-flex;align-items:center;min-height:2.75rem;margin-top:1.25rem;padding:0 1rem;border-radius:.5rem;background:#2f5227;color:#fff;font-weight:600;text-decoration:none}
 a:focus-visible{outline:3px solid #4e7a3f;outline-offset:2px}
-svg{flex:none;color:#82520c}
+svg{flex:none;color:#a4402b}
 </style>
 </head>
 <body>
 <main>
 <div class="notice" role="alert">
-${iconSvg('caution', 28)}
+${iconSvg('stop', 26)}
 <div><h1>Not printed</h1><p>${escapeHtml(reason)}</p></div>
 </div>
 <a href="${escapeHtml(back.href)}">${escapeHtml(back.label)}</a>

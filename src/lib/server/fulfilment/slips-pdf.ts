@@ -430,16 +430,24 @@ function drawLabel(sheet: Sheet, frame: SlipFrame, order: SlipOrder): void {
 	sheet.rule(x, y, width);
 	y += 7;
 
-	y += kicker(sheet, 'Ship to', x, y);
-	const to = order.shipTo;
-	y += sheet.write(to.name, x, y, width, { size: 15, weight: 'bold', lineGap: 1 });
-	y += sheet.write(to.line1, x, y, width, { size: 13, lineGap: 1 });
-	if (to.line2.trim()) y += sheet.write(to.line2, x, y, width, { size: 13, lineGap: 1 });
-	y += sheet.line(`${to.city}, ${to.state} ${to.zip}`, x, y, width, { size: 14, weight: 'bold' });
-	y += 8;
+	// A long name or address gets smaller type, and then the handling panel drops its
+	// small print, so the label never runs into its own code.
+	const codeHeight = 40;
+	const foot = label.y + label.height - pad;
+	const room = foot - 15 - codeHeight - 8 - y - STRIP_HEIGHT - 8;
+	const rules = order.hasLive ? LIVE_HANDLING : SUPPLY_HANDLING;
+	const fit = [1, 0.9, 0.8]
+		.flatMap((scale) => [false, true].map((compact) => ({ scale, compact })))
+		.find(
+			({ scale, compact }) =>
+				drawAddress(sheet, order, x, y, width, scale, true) +
+					handlingHeight(rules.length, compact) <=
+				room
+		) ?? { scale: 0.7, compact: true };
+	y += drawAddress(sheet, order, x, y, width, fit.scale, false);
 
 	// The service strip: what the carrier must honour.
-	const strip = { x, y, width, height: 26 };
+	const strip = { x, y, width, height: STRIP_HEIGHT };
 	sheet.panel(strip, COLOUR.moss, COLOUR.moss, { radius: 4 });
 	sheet.icon('van', x + 7, y + 4, 18, COLOUR.white);
 	sheet.line(serviceLabels[order.service].toUpperCase(), x + 30, y + 6, 110, {
@@ -456,11 +464,9 @@ function drawLabel(sheet: Sheet, frame: SlipFrame, order: SlipOrder): void {
 	});
 	y += strip.height + 8;
 
-	drawHandlingPanel(sheet, { x, y, width, height: 0 }, order.hasLive);
+	drawHandlingPanel(sheet, { x, y, width, height: 0 }, rules, order.hasLive, fit.compact);
 
 	// The order number as text and as Code 128, at the foot of the label.
-	const codeHeight = 40;
-	const foot = label.y + label.height - pad;
 	sheet.write(order.orderNumber, x, foot - 13, width, {
 		size: 10,
 		weight: 'semibold',
@@ -468,6 +474,37 @@ function drawLabel(sheet: Sheet, frame: SlipFrame, order: SlipOrder): void {
 		lineGap: 0
 	});
 	sheet.code128(order.orderNumber, x, foot - 15 - codeHeight, width, codeHeight);
+}
+
+const STRIP_HEIGHT = 26;
+
+/** The "ship to" block at `scale` of its type; draws it unless `measureOnly`. Returns its height. */
+function drawAddress(
+	sheet: Sheet,
+	order: SlipOrder,
+	x: number,
+	y: number,
+	width: number,
+	scale: number,
+	measureOnly: boolean
+): number {
+	const to = order.shipTo;
+	const blocks: [string, TextStyle][] = [
+		[to.name, { size: 15 * scale, weight: 'bold', lineGap: 1 }],
+		[to.line1, { size: 13 * scale, lineGap: 1 }],
+		...(to.line2.trim()
+			? [[to.line2, { size: 13 * scale, lineGap: 1 }] as [string, TextStyle]]
+			: []),
+		[`${to.city}, ${to.state} ${to.zip}`, { size: 14 * scale, weight: 'bold', lineGap: 1 }]
+	];
+	let height = measureOnly
+		? sheet.measure('SHIP TO', width, { size: 7.5, weight: 'semibold', lineGap: 1 })
+		: kicker(sheet, 'Ship to', x, y);
+	for (const [text, style] of blocks)
+		height += measureOnly
+			? sheet.measure(text, width, style)
+			: sheet.write(text, x, y + height, width, style);
+	return height + 8;
 }
 
 interface HandlingRule {
@@ -506,11 +543,22 @@ const SUPPLY_HANDLING: HandlingRule[] = [
 	{ icon: 'up', title: 'This side up', detail: 'Carry it level and set it down gently.' }
 ];
 
-function drawHandlingPanel(sheet: Sheet, area: Box, live: boolean): number {
-	const rules = live ? LIVE_HANDLING : SUPPLY_HANDLING;
-	const band = 38;
-	const row = 25;
-	const height = band + rules.length * row + 8;
+const HANDLING_BAND = 38;
+
+function handlingHeight(rules: number, compact: boolean): number {
+	return HANDLING_BAND + rules * (compact ? 16 : 25) + 8;
+}
+
+function drawHandlingPanel(
+	sheet: Sheet,
+	area: Box,
+	rules: readonly HandlingRule[],
+	live: boolean,
+	compact: boolean
+): number {
+	const band = HANDLING_BAND;
+	const row = compact ? 16 : 25;
+	const height = handlingHeight(rules.length, compact);
 	const doc = sheet.doc;
 	sheet.panel({ ...area, height }, COLOUR.white, COLOUR.moss, { radius: 6, width: 2 });
 	// The band: the panel's top, filled, with its words.
@@ -536,18 +584,20 @@ function drawHandlingPanel(sheet: Sheet, area: Box, live: boolean): number {
 	let y = area.y + band + 6;
 	for (const rule of rules) {
 		const iconX = area.x + 10;
-		if (rule.icon === 'up') drawThisSideUp(sheet, iconX, y + 1, 17);
-		else sheet.icon(rule.icon, iconX, y + 1, 17, COLOUR.moss);
+		const iconSize = compact ? 13 : 17;
+		if (rule.icon === 'up') drawThisSideUp(sheet, iconX, y + 1, iconSize);
+		else sheet.icon(rule.icon, iconX, y + 1, iconSize, COLOUR.moss);
 		sheet.write(rule.title, area.x + 34, y, area.width - 42, {
 			size: 10,
 			weight: 'bold',
 			lineGap: 0
 		});
-		sheet.write(rule.detail, area.x + 34, y + 12, area.width - 42, {
-			size: 7.5,
-			color: COLOUR.inkSoft,
-			lineGap: 0
-		});
+		if (!compact)
+			sheet.write(rule.detail, area.x + 34, y + 12, area.width - 42, {
+				size: 7.5,
+				color: COLOUR.inkSoft,
+				lineGap: 0
+			});
 		y += row;
 	}
 	return height;
