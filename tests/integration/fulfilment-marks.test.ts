@@ -300,6 +300,18 @@ describe('ship-day marks', () => {
 		const order = await orderByNumber('HL-10011');
 		// 15:00 UTC on Wed 2 Dec 2026 is 10:00 in New York: the check's own ship date.
 		const now = new Date('2026-12-02T15:00:00Z');
+		// A day early (Tue 1 Dec, 10:00 in New York) the forecast has not cleared it: the
+		// keeper must say so, and nothing is written until then.
+		const early = await markShipped(
+			scratch.db,
+			actor('keeper'),
+			{ orderId: order.id, carrier: 'UPS', trackingNumber: upsNumbers[0]! },
+			links,
+			{ now: new Date('2026-12-01T15:00:00Z') }
+		);
+		expect(early).toMatchObject({ ok: false, status: 409, field: 'confirmOffDay' });
+		if (!early.ok) expect(early.problem).toContain('cleared Wed, Dec 2, 2026 for its animals');
+		expect((await orderByNumber('HL-10011')).state).toBe('packed');
 		const both = await Promise.all([
 			markShipped(
 				scratch.db,

@@ -81,7 +81,7 @@ describe('tracking updates', () => {
 		const shipped = await markShipped(
 			scratch.db,
 			actor,
-			{ orderId, carrier: 'UPS', trackingNumber: shippedNumber! },
+			{ orderId, carrier: 'UPS', trackingNumber: shippedNumber!, confirmOffDay: true },
 			{ origin: 'http://shop.example.test' },
 			{ now: minutesAgo(24 * 60) }
 		);

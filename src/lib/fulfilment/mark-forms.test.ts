@@ -38,7 +38,8 @@ describe('shipSchema', () => {
 		expect(shipSchema.parse({ orderId: 1, carrier: 'hand' })).toEqual({
 			orderId: 1,
 			carrier: 'hand',
-			trackingNumber: ''
+			trackingNumber: '',
+			confirmOffDay: false
 		});
 	});
 

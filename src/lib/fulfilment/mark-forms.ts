@@ -38,7 +38,9 @@ export const shipSchema = z
 			.string()
 			.trim()
 			.max(TRACKING_NUMBER_MAX_LENGTH, 'That is longer than any tracking number.')
-			.default('')
+			.default(''),
+		/** Ticked when a live box goes out on another day than its ship check cleared. */
+		confirmOffDay: z.boolean().default(false)
 	})
 	.superRefine((form, ctx) => {
 		if (needsTrackingNumber(form.carrier) && normalizeTrackingNumber(form.trackingNumber) === '')

@@ -46,7 +46,8 @@ type Trx = Transaction<Database>;
 export type MarkLinks = { origin: string };
 
 /** The form field a refusal belongs to, when it belongs to one. */
-export type MarkField = 'carrier' | 'trackingNumber' | 'deliveredAt' | 'reason' | 'from';
+export type MarkField =
+	'carrier' | 'trackingNumber' | 'deliveredAt' | 'reason' | 'from' | 'confirmOffDay';
 
 /** A mark that was not made; nothing was written. `status` suits an action's fail(). */
 export type MarkRefusal = {
@@ -111,6 +112,7 @@ type LockedOrder = {
 	id: number;
 	order_number: string;
 	state: OrderState;
+	ship_on: IsoDate | null;
 	service: Service;
 	email: string;
 	ship_name: string;
@@ -120,7 +122,7 @@ type LockedOrder = {
 async function lockOrder(trx: Trx, orderId: number): Promise<LockedOrder | undefined> {
 	return trx
 		.selectFrom('customer_order')
-		.select(['id', 'order_number', 'state', 'service', 'email', 'ship_name', 'user_id'])
+		.select(['id', 'order_number', 'state', 'ship_on', 'service', 'email', 'ship_name', 'user_id'])
 		.where('id', '=', orderId)
 		.forUpdate()
 		.executeTakeFirst();
@@ -371,7 +373,13 @@ export async function markPacked(
 
 // ---------------------------------------------------------------- shipped
 
-export type ShipInput = { orderId: number; carrier: string; trackingNumber: string };
+export type ShipInput = {
+	orderId: number;
+	carrier: string;
+	trackingNumber: string;
+	/** The keeper knows a live box goes out on another day than its ship check cleared. */
+	confirmOffDay?: boolean;
+};
 
 export type ShipOutcome =
 	| {
@@ -459,6 +467,19 @@ export async function markShipped(
 		const settings = await shopSettings(trx);
 		const check = await checkOf(trx, order.id, shipment.ship_check_id);
 		const shippedOn = todayInZone(settings.timeZone, now);
+		// The forecast cleared one day for live animals; another day needs the keeper's word.
+		if (
+			carrier !== 'hand' &&
+			order.ship_on &&
+			order.ship_on !== shippedOn &&
+			!input.confirmOffDay &&
+			(await hasLiveLine(trx, order.id))
+		)
+			return refusal(
+				409,
+				`${order.order_number}'s ship check cleared ${formatShopDate(order.ship_on, 'UTC')} for its animals, not today. Re-check it, or tick that you ship it today anyway.`,
+				'confirmOffDay'
+			);
 		const expected = expectedDeliveryOn({
 			shippedOn,
 			service: order.service,

@@ -60,6 +60,99 @@ export interface ShipDay {
 	shortfalls: ClutchShortfall[];
 }
 
+/**
+ * The box's ship check run again now from its ship day, against what it was scheduled
+ * (or packed) with; `unavailable` says why when the forecast could not be read.
+ */
+export async function lookAgainAt(
+	db: Kysely<Database>,
+	source: ForecastSource,
+	box: {
+		service: Service;
+		shipZip: string;
+		shipOn: IsoDate;
+		scheduled: { packs: readonly Pack[]; facilityPickup: boolean };
+	}
+): Promise<{ change: CheckChange | null; unavailable: string | null }> {
+	try {
+		const fresh = await previewShipCheck(db, source, {
+			service: box.service,
+			destinationZip: box.shipZip,
+			firstDate: box.shipOn
+		});
+		return {
+			change: checkChange({ shipOn: box.shipOn, ...box.scheduled }, fresh),
+			unavailable: null
+		};
+	} catch (failure) {
+		return {
+			change: null,
+			unavailable: failure instanceof Error ? failure.message : 'The forecast could not be read.'
+		};
+	}
+}
+
+/** Whether each given order's check changed since it was scheduled, as the ship-day page shows it. */
+export async function changedChecks(
+	db: Kysely<Database>,
+	source: ForecastSource,
+	orderIds: readonly number[],
+	today: IsoDate
+): Promise<Map<number, CheckChange | null>> {
+	const changes = new Map<number, CheckChange | null>();
+	if (orderIds.length === 0) return changes;
+	const rows = await db
+		.selectFrom('customer_order as o')
+		.select([
+			'o.id',
+			'o.service',
+			'o.ship_zip',
+			'o.ship_on',
+			(eb) =>
+				eb
+					.exists(
+						eb
+							.selectFrom('order_line')
+							.select('id')
+							.whereRef('order_line.order_id', '=', 'o.id')
+							.where('is_live', '=', true)
+					)
+					.as('live')
+		])
+		.where('o.id', 'in', orderIds)
+		.where('o.state', '=', 'scheduled')
+		.execute();
+	for (const row of rows) {
+		if (!row.live || !row.ship_on || row.ship_on < today) {
+			changes.set(row.id, null);
+			continue;
+		}
+		const check = await latestShipCheck(db, row.id);
+		const look = await lookAgainAt(db, source, {
+			service: row.service,
+			shipZip: row.ship_zip,
+			shipOn: row.ship_on,
+			scheduled: {
+				packs: check?.decision === 'ship' ? check.packs : [],
+				facilityPickup: check?.decision === 'ship' ? check.facilityPickup : false
+			}
+		});
+		// A forecast that cannot be read counts as changed: the keeper confirms, never the server.
+		changes.set(
+			row.id,
+			look.change ??
+				(look.unavailable
+					? {
+							kind: 'hold',
+							summary: `The forecast could not be read: ${look.unavailable}`,
+							reasons: []
+						}
+					: null)
+		);
+	}
+	return changes;
+}
+
 /** Overnight boxes first (they go first), then two-day, then by order number. */
 const SERVICE_ORDER: Record<Service, number> = { overnight: 0, two_day: 1 };
 
@@ -149,17 +242,14 @@ export async function loadShipDay(
 			let checkUnavailable: string | null = null;
 			const live = lines.some((l) => l.order_id === row.id && l.is_live);
 			if (lookAgain && live && (row.state === 'scheduled' || row.state === 'packed')) {
-				try {
-					const fresh = await previewShipCheck(db, options.source as ForecastSource, {
-						service: row.service,
-						destinationZip: row.ship_zip,
-						firstDate: date
-					});
-					change = checkChange({ shipOn: date, packs, facilityPickup }, fresh);
-				} catch (failure) {
-					checkUnavailable =
-						failure instanceof Error ? failure.message : 'The forecast could not be read.';
-				}
+				const look = await lookAgainAt(db, options.source as ForecastSource, {
+					service: row.service,
+					shipZip: row.ship_zip,
+					shipOn: date,
+					scheduled: { packs, facilityPickup }
+				});
+				change = look.change;
+				checkUnavailable = look.unavailable;
 			}
 			return {
 				id: row.id,
