@@ -620,7 +620,7 @@ function orderStories(today: string): OrderStory[] {
 		{
 			// A second box on the same ship day, so the demo's next ship morning has two to pack.
 			number: 'HL-10015',
-			email: dagny,
+			email: jory,
 			service: 'overnight',
 			createdOn: day(-1),
 			lines: [['narceus-americanus-juveniles-nar-c1', 2]],

@@ -179,17 +179,12 @@ describe('order pages', () => {
 		});
 
 		it('finds by order number or e-mail, ignoring case, with wildcards taken literally', async () => {
-			expect(await numbers({ q: 'DAGNY' })).toEqual([
-				'HL-10015',
-				'HL-10012',
-				'HL-10006',
-				'HL-10002'
-			]);
+			expect(await numbers({ q: 'DAGNY' })).toEqual(['HL-10012', 'HL-10006', 'HL-10002']);
 			expect(await numbers({ q: 'hl-1001' })).toEqual(
 				await sqlNumbers(sql`order_number ilike 'HL-1001%'`)
 			);
 			expect(await numbers({ q: 'hl-1001' })).toHaveLength(6);
-			expect(await numbers({ q: 'example.test' })).toHaveLength(7);
+			expect(await numbers({ q: 'example.test' })).toHaveLength(8);
 			expect(await numbers({ q: '%' })).toEqual([]);
 			expect(await numbers({ q: 'HL-1000_' })).toEqual([]);
 		});
