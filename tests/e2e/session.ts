@@ -9,5 +9,6 @@ export async function signInAsDemo(page: Page, role: 'keeper' | 'admin', next: s
 	await form.getByLabel('E-mail').fill(who.email);
 	await form.getByLabel('Password').fill(DEMO_PASSWORD);
 	await form.getByRole('button', { name: 'Sign in' }).click();
-	await expect(page).toHaveURL(new RegExp(`${next.replace(/\//g, '\\/')}$`));
+	// Every regular-expression special in the path (a query's "?" too) is taken literally.
+	await expect(page).toHaveURL(new RegExp(`${next.replace(/[.*+?^${}()|[\]\\/]/g, '\\$&')}$`));
 }
