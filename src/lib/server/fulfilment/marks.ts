@@ -37,6 +37,7 @@ import type {
 } from '$lib/server/db/schema';
 import { queueMail } from '$lib/server/mail';
 import { moveOrder, noteOrder, type OrderActor } from '$lib/server/orders/transitions';
+import { hasLiveLine } from '$lib/server/shipping/order-checks';
 import { shortfallsForOrders, type ClutchShortfall } from './shortfall';
 
 type Db = Kysely<Database>;
@@ -135,17 +136,6 @@ async function lockShipment(trx: Trx, orderId: number) {
 		.where('order_id', '=', orderId)
 		.forUpdate()
 		.executeTakeFirst();
-}
-
-async function hasLiveLine(trx: Trx, orderId: number): Promise<boolean> {
-	const live = await trx
-		.selectFrom('order_line')
-		.select('id')
-		.where('order_id', '=', orderId)
-		.where('is_live', '=', true)
-		.limit(1)
-		.executeTakeFirst();
-	return live !== undefined;
 }
 
 async function shopSettings(trx: Trx) {

@@ -196,7 +196,8 @@ async function readOrder(db: Db, orderId: number, lock: boolean): Promise<OrderR
 	return query.executeTakeFirst();
 }
 
-async function hasLiveLine(db: Db, orderId: number): Promise<boolean> {
+/** Whether an order has anything live in it (only live animals are weather-gated). */
+export async function hasLiveLine(db: Db, orderId: number): Promise<boolean> {
 	const live = await db
 		.selectFrom('order_line')
 		.select('id')

@@ -1,4 +1,4 @@
-import { error, fail } from '@sveltejs/kit';
+import { fail } from '@sveltejs/kit';
 import { env } from '$env/dynamic/private';
 import { message, setError, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
@@ -8,8 +8,8 @@ import { clientAddress } from '$lib/server/auth/requests';
 import { shopClock } from '$lib/server/backoffice/settings';
 import { getDb } from '$lib/server/db';
 import { loadDispatchBoard } from '$lib/server/shipping/dispatch';
-import { checkOrder, overrideShipCheck } from '$lib/server/shipping/order-checks';
-import { forecastSource } from '$lib/server/weather';
+import { overrideShipCheck } from '$lib/server/shipping/order-checks';
+import { recheckAction } from '$lib/server/shipping/recheck-action';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async (event) => {
@@ -55,23 +55,7 @@ export const load: PageServerLoad = async (event) => {
 };
 
 export const actions: Actions = {
-	recheck: async (event) => {
-		const me = requireRole(event, 'keeper');
-		const form = await superValidate(event.request, zod4(recheckSchema));
-		if (!form.valid) return fail(400, { form });
-		const db = getDb();
-		try {
-			const outcome = await checkOrder(db, forecastSource(db), form.data.orderId, {
-				kind: 'user',
-				userId: me.id,
-				ip: clientAddress(event)
-			});
-			return message(form, outcome.message);
-		} catch (cause) {
-			console.error('[dispatch] re-check failed', cause);
-			error(503, 'The ship check could not run just now; nothing was changed.');
-		}
-	},
+	recheck: (event) => recheckAction(event, 'dispatch'),
 	override: async (event) => {
 		const me = requireRole(event, 'keeper');
 		const form = await superValidate(event.request, zod4(overrideSchema));

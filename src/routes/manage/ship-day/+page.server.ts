@@ -1,4 +1,4 @@
-import { error, fail } from '@sveltejs/kit';
+import { fail } from '@sveltejs/kit';
 import { env } from '$env/dynamic/private';
 import { message, setError, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
@@ -30,8 +30,8 @@ import {
 } from '$lib/server/fulfilment/marks';
 import { changedChecks, loadShipDay } from '$lib/server/fulfilment/ship-day';
 import { substituteChoices, substituteClutch } from '$lib/server/fulfilment/substitute';
-import { checkOrder } from '$lib/server/shipping/order-checks';
 import { forecastSource } from '$lib/server/weather';
+import { recheckAction } from '$lib/server/shipping/recheck-action';
 import type { Actions, PageServerLoad } from './$types';
 
 const quiet = (id: string) => ({ id, errors: false }) as const;
@@ -180,23 +180,7 @@ const actorOf = (me: { id: string }, event: Parameters<typeof clientAddress>[0])
 });
 
 export const actions: Actions = {
-	recheck: async (event) => {
-		const me = requireRole(event, 'keeper');
-		const form = await superValidate(event.request, zod4(recheckSchema));
-		if (!form.valid) return fail(400, { form });
-		const db = getDb();
-		try {
-			const outcome = await checkOrder(db, forecastSource(db), form.data.orderId, {
-				kind: 'user',
-				userId: me.id,
-				ip: clientAddress(event)
-			});
-			return message(form, outcome.message);
-		} catch (cause) {
-			console.error('[ship-day] re-check failed', cause);
-			error(503, 'The ship check could not run just now; nothing was changed.');
-		}
-	},
+	recheck: (event) => recheckAction(event, 'ship-day'),
 	pack: async (event) => {
 		const me = requireRole(event, 'keeper');
 		const form = await superValidate(event.request, zod4(packSchema));
