@@ -4,8 +4,8 @@ import type { Kysely } from 'kysely';
 import type { Database } from '../db/schema';
 import { customerActorWords } from '$lib/orders/timeline';
 import { claimsOfOrder } from '../claims/claims';
+import { handedOverBox } from '../fulfilment/tracking-view';
 import { claimAvailability } from '$lib/claims/window';
-import { carrierFrom, describeCarrier, trackingLink } from '$lib/fulfilment/tracking';
 import { resolveShopTimeZone } from '../backoffice/settings';
 import type { Db } from '$lib/server/db';
 import { claimWindowHours, latestShipCheck, orderTimeline } from './history';
@@ -47,7 +47,7 @@ export async function ownOrder(db: Kysely<Database>, userId: string, orderNumber
 		.where('user_id', '=', userId)
 		.executeTakeFirst();
 	if (!order) return null;
-	const [lines, events, shipCheck, claims, shipment] = await Promise.all([
+	const [lines, events, shipCheck, claims, tracking] = await Promise.all([
 		db
 			.selectFrom('order_line')
 			.select(['id', 'description', 'quantity', 'unit_size', 'line_total_cents', 'is_live'])
@@ -57,12 +57,7 @@ export async function ownOrder(db: Kysely<Database>, userId: string, orderNumber
 		orderTimeline(db, order.id),
 		latestShipCheck(db, order.id),
 		claimsOfOrder(db, order.id),
-		db
-			.selectFrom('shipment')
-			.select(['carrier', 'tracking_number', 'shipped_at', 'expected_delivery_on', 'delivered_at'])
-			.where('order_id', '=', order.id)
-			.where('shipped_at', 'is not', null)
-			.executeTakeFirst()
+		handedOverBox(db, order.id)
 	]);
 	const { id: _id, ...visible } = order;
 	// Staff names and e-mails stay on the server: the customer reads "the shop", "payment", "you".
@@ -74,18 +69,6 @@ export async function ownOrder(db: Kysely<Database>, userId: string, orderNumber
 		note: event.note,
 		at: event.at
 	}));
-	// The tracking link is worked out here: the carriers' format data stays on the server.
-	const carrier = shipment ? carrierFrom(shipment.carrier) : null;
-	const tracking = shipment
-		? {
-				carrier: describeCarrier(shipment.carrier, null),
-				trackingNumber: shipment.tracking_number,
-				trackingUrl: carrier ? trackingLink(carrier, shipment.tracking_number) : null,
-				shippedAt: shipment.shipped_at as Date,
-				expectedDeliveryOn: shipment.expected_delivery_on,
-				deliveredAt: shipment.delivered_at
-			}
-		: null;
 	return { ...visible, lines, events: history, shipCheck, claims, tracking };
 }
 

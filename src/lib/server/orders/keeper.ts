@@ -1,6 +1,7 @@
 // The back office's view of orders: a filtered list, newest first, in pages, and one
 // order in full. Callers check the keeper role before calling.
 import { sql } from 'kysely';
+import { handedOverBox } from '$lib/server/fulfilment/tracking-view';
 import type { Db } from '$lib/server/db';
 import { ORDER_PAGE_SIZE, type OrderListFilters } from '$lib/orders/list-filters';
 import { latestShipCheck, orderTimeline } from './history';
@@ -87,7 +88,7 @@ export async function keeperOrder(db: Db, orderNumber: string) {
 		.where('order_number', '=', orderNumber)
 		.executeTakeFirst();
 	if (!order) return null;
-	const [lines, events, shipCheck] = await Promise.all([
+	const [lines, events, shipCheck, tracking] = await Promise.all([
 		db
 			.selectFrom('order_line')
 			.select([
@@ -104,7 +105,8 @@ export async function keeperOrder(db: Db, orderNumber: string) {
 			.orderBy('id')
 			.execute(),
 		orderTimeline(db, order.id),
-		latestShipCheck(db, order.id)
+		latestShipCheck(db, order.id),
+		handedOverBox(db, order.id)
 	]);
-	return { ...order, lines, events, shipCheck };
+	return { ...order, lines, events, shipCheck, tracking };
 }
