@@ -6,6 +6,7 @@
 // env: CARRIER_FAKE_PORT (2597), TRACKING_WEBHOOK_URL (the shop's tracking endpoint),
 // TRACKING_WEBHOOK_SECRET (signs the updates); it listens on 127.0.0.1 only.
 import { DEFAULT_TRACKING_SECRET, startCarrierFake } from './carrier/server';
+import { runFake, stopOnSignal } from './stop-on-signal';
 
 function portFrom(value: string | undefined, fallback: number): number {
 	if (value === undefined || value.trim() === '') return fallback;
@@ -30,26 +31,7 @@ async function main(): Promise<void> {
 	console.log(
 		`[carrier-fake] controls on ${fake.url}/test/updates; updates to ${webhookUrl ?? '(no TRACKING_WEBHOOK_URL set)'}`
 	);
-	let stopping = false;
-	const stop = (signal: string) => {
-		if (stopping) return;
-		stopping = true;
-		fake
-			.stop()
-			.then(() => {
-				console.log(`[carrier-fake] stopped (${signal})`);
-				process.exit(0);
-			})
-			.catch((error: Error) => {
-				console.error(`[carrier-fake] could not stop cleanly: ${error.message}`);
-				process.exit(1);
-			});
-	};
-	process.on('SIGINT', () => stop('SIGINT'));
-	process.on('SIGTERM', () => stop('SIGTERM'));
+	stopOnSignal('carrier-fake', fake);
 }
 
-main().catch((error: Error) => {
-	console.error(`[carrier-fake] ${error.message}`);
-	process.exit(1);
-});
+runFake('carrier-fake', main);

@@ -18,6 +18,7 @@ import { pathToFileURL } from 'node:url';
 import { simpleParser, type AddressObject } from 'mailparser';
 import { SMTPServer, type SMTPServerError } from 'smtp-server';
 import type { CaughtMessage, CaughtSummary } from '../../src/lib/server/mail/catcher';
+import { runFake, stopOnSignal } from './stop-on-signal';
 
 const HOST = '127.0.0.1';
 /** Larger than any shop mail; a runaway client must not fill the disk. */
@@ -264,28 +265,9 @@ async function main(): Promise<void> {
 	console.log(
 		`[mail-catcher] SMTP on smtp://${HOST}:${catcher.smtpPort} · messages on http://${HOST}:${catcher.httpPort}/messages`
 	);
-	let stopping = false;
-	const stop = (signal: string) => {
-		if (stopping) return;
-		stopping = true;
-		catcher
-			.close()
-			.then(() => {
-				console.log(`[mail-catcher] stopped (${signal})`);
-				process.exit(0);
-			})
-			.catch((error: Error) => {
-				console.error(`[mail-catcher] could not stop cleanly: ${error.message}`);
-				process.exit(1);
-			});
-	};
-	process.on('SIGINT', () => stop('SIGINT'));
-	process.on('SIGTERM', () => stop('SIGTERM'));
+	stopOnSignal('mail-catcher', { stop: () => catcher.close() });
 }
 
 if (process.argv[1] && import.meta.url === pathToFileURL(path.resolve(process.argv[1])).href) {
-	main().catch((error: Error) => {
-		console.error(`[mail-catcher] ${error.message}`);
-		process.exit(1);
-	});
+	runFake('mail-catcher', main);
 }

@@ -15,6 +15,7 @@ import {
 	startStripeFake,
 	type StripeFake
 } from './stripe/server';
+import { runFake, stopOnSignal } from './stop-on-signal';
 
 /** Teaches the stand-in the shop's succeeded card payments, less their succeeded refunds. */
 async function adoptShopPayments(fake: StripeFake, databaseUrl: string): Promise<number> {
@@ -81,26 +82,7 @@ async function main(): Promise<void> {
 		const known = await adoptShopPayments(fake, shopDatabase);
 		console.log(`[stripe-fake] knows ${known} card payment(s) already in the shop's database`);
 	}
-	let stopping = false;
-	const stop = (signal: string) => {
-		if (stopping) return;
-		stopping = true;
-		fake
-			.stop()
-			.then(() => {
-				console.log(`[stripe-fake] stopped (${signal})`);
-				process.exit(0);
-			})
-			.catch((error: Error) => {
-				console.error(`[stripe-fake] could not stop cleanly: ${error.message}`);
-				process.exit(1);
-			});
-	};
-	process.on('SIGINT', () => stop('SIGINT'));
-	process.on('SIGTERM', () => stop('SIGTERM'));
+	stopOnSignal('stripe-fake', fake);
 }
 
-main().catch((error: Error) => {
-	console.error(`[stripe-fake] ${error.message}`);
-	process.exit(1);
-});
+runFake('stripe-fake', main);

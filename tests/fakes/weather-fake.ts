@@ -5,6 +5,7 @@
 //
 // env: WEATHER_FAKE_PORT (2590); it listens on 127.0.0.1 only.
 import { startWeatherFake } from './weather/server';
+import { runFake, stopOnSignal } from './stop-on-signal';
 
 function portFrom(value: string | undefined, fallback: number): number {
 	if (value === undefined || value.trim() === '') return fallback;
@@ -21,26 +22,7 @@ async function main(): Promise<void> {
 		log: (line) => console.log(line)
 	});
 	console.log(`[weather-fake] forecasts on ${fake.url}/v1/forecast`);
-	let stopping = false;
-	const stop = (signal: string) => {
-		if (stopping) return;
-		stopping = true;
-		fake
-			.stop()
-			.then(() => {
-				console.log(`[weather-fake] stopped (${signal})`);
-				process.exit(0);
-			})
-			.catch((error: Error) => {
-				console.error(`[weather-fake] could not stop cleanly: ${error.message}`);
-				process.exit(1);
-			});
-	};
-	process.on('SIGINT', () => stop('SIGINT'));
-	process.on('SIGTERM', () => stop('SIGTERM'));
+	stopOnSignal('weather-fake', fake);
 }
 
-main().catch((error: Error) => {
-	console.error(`[weather-fake] ${error.message}`);
-	process.exit(1);
-});
+runFake('weather-fake', main);
