@@ -13,7 +13,7 @@ import type { CheckoutForm } from '../../src/lib/checkout/schema';
 import type { Db } from '../../src/lib/server/db/connect';
 import { seedDemo } from '../../seed/demo';
 import type { StripeFake } from '../fakes/stripe/server';
-import { startPaymentsHarness, type PaymentsHarness } from './support/payments';
+import { checkoutAddress, startPaymentsHarness, type PaymentsHarness } from './support/payments';
 import { guestCartWith, insertListedClutch } from './support/stock';
 import { scratchDatabase, type ScratchDatabase } from './support/databases';
 
@@ -21,17 +21,7 @@ const API_KEY = 'sk_test_local_fake_checkout';
 const SECRET = 'whsec_local_fake_checkout';
 const ORIGIN = 'http://127.0.0.1:5999';
 
-const address: CheckoutForm = {
-	email: 'buyer@example.com',
-	ship_name: 'Ada Buyer',
-	ship_line1: '100 Example Ave',
-	ship_line2: '',
-	ship_city: 'Minneapolis',
-	ship_state: 'MN',
-	ship_zip: '55401',
-	service: 'overnight',
-	terms: true
-};
+const address = checkoutAddress('buyer@example.com');
 
 describe('checkout and the Stripe webhook', () => {
 	let scratch: ScratchDatabase;

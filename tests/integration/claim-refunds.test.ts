@@ -8,7 +8,6 @@ import path from 'node:path';
 import sharp from 'sharp';
 import Stripe from 'stripe';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { CheckoutForm } from '../../src/lib/checkout/schema';
 import type { Actor } from '../../src/lib/server/audit';
 import { changeLine, ensureCartId } from '../../src/lib/server/cart/cart';
 import { fileClaim } from '../../src/lib/server/claims/claims';
@@ -17,24 +16,14 @@ import type { Db } from '../../src/lib/server/db/connect';
 import { startCheckout } from '../../src/lib/server/payments/checkout';
 import { seedDemo } from '../../seed/demo';
 import type { StripeFake } from '../fakes/stripe/server';
-import { startPaymentsHarness, type PaymentsHarness } from './support/payments';
+import { checkoutAddress, startPaymentsHarness, type PaymentsHarness } from './support/payments';
 import { scratchDatabase, type ScratchDatabase } from './support/databases';
 
 const API_KEY = 'sk_test_local_fake_claims';
 const SECRET = 'whsec_local_fake_claims';
 const ORIGIN = 'http://127.0.0.1:5997';
 
-const address: CheckoutForm = {
-	email: 'claim.buyer@example.com',
-	ship_name: 'Ada Buyer',
-	ship_line1: '100 Example Ave',
-	ship_line2: '',
-	ship_city: 'Minneapolis',
-	ship_state: 'MN',
-	ship_zip: '55401',
-	service: 'overnight',
-	terms: true
-};
+const address = checkoutAddress('claim.buyer@example.com');
 
 describe('refunding a claim', () => {
 	let scratch: ScratchDatabase;

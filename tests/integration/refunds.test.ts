@@ -11,14 +11,13 @@ import {
 	refundOrder,
 	type RefundInput
 } from '../../src/lib/server/payments/refunds';
-import type { CheckoutForm } from '../../src/lib/checkout/schema';
 import type { Db } from '../../src/lib/server/db/connect';
 import type { Actor } from '../../src/lib/server/audit';
 import { seedDemo } from '../../seed/demo';
 import type { SessionUser } from '../../src/lib/server/auth/guard';
 import { actions as orderPageActions } from '../../src/routes/manage/orders/[number]/+page.server';
 import type { StripeFake } from '../fakes/stripe/server';
-import { startPaymentsHarness, type PaymentsHarness } from './support/payments';
+import { checkoutAddress, startPaymentsHarness, type PaymentsHarness } from './support/payments';
 import { guestCartWith, insertListedClutch } from './support/stock';
 import { scratchDatabase, type ScratchDatabase } from './support/databases';
 
@@ -26,17 +25,7 @@ const API_KEY = 'sk_test_local_fake_refunds';
 const SECRET = 'whsec_local_fake_refunds';
 const ORIGIN = 'http://127.0.0.1:5998';
 
-const address: CheckoutForm = {
-	email: 'refund.buyer@example.com',
-	ship_name: 'Ada Buyer',
-	ship_line1: '100 Example Ave',
-	ship_line2: '',
-	ship_city: 'Minneapolis',
-	ship_state: 'MN',
-	ship_zip: '55401',
-	service: 'overnight',
-	terms: true
-};
+const address = checkoutAddress('refund.buyer@example.com');
 
 describe('refunds', () => {
 	let scratch: ScratchDatabase;

@@ -2,11 +2,12 @@
 // dead lines' share when left blank, and a note), reship at no charge (a note), or
 // decline (a reason). The customer reads every note. Pure, so page and server agree.
 import { z } from 'zod';
+import { refundAmountProblem, REFUND_REASON_MAX } from '$lib/orders/refund-form';
 import { parseDollarsToCents } from '$lib/shipping/settings-schema';
 
-/** Notes and reasons the customer reads; the refund module keeps reasons to 500 characters. */
-export const CLAIM_NOTE_MAX = 500;
-/** Matches the claims module's MIN_DECLINE_REASON (the integration test holds them together). */
+/** Notes and reasons the customer reads: a claim refund's note is the refund's reason. */
+export const CLAIM_NOTE_MAX = REFUND_REASON_MAX;
+/** The shortest decline reason; the claims module refuses shorter ones with the same number. */
 export const DECLINE_REASON_MIN = 10;
 
 const noteTooLong = `Keep it under ${CLAIM_NOTE_MAX} characters.`;
@@ -21,19 +22,8 @@ export const claimRefundSchema = z
 			.max(CLAIM_NOTE_MAX, noteTooLong)
 	})
 	.superRefine((form, ctx) => {
-		if (form.amount === '') return;
-		if (/^\$?\s*-/.test(form.amount)) {
-			ctx.addIssue({ code: 'custom', path: ['amount'], message: 'A refund cannot be negative.' });
-			return;
-		}
-		const parsed = parseDollarsToCents(form.amount);
-		if (!parsed.ok) ctx.addIssue({ code: 'custom', path: ['amount'], message: parsed.problem });
-		else if (parsed.cents === 0)
-			ctx.addIssue({
-				code: 'custom',
-				path: ['amount'],
-				message: 'A refund must be more than $0.00.'
-			});
+		const problem = form.amount === '' ? null : refundAmountProblem(form.amount);
+		if (problem) ctx.addIssue({ code: 'custom', path: ['amount'], message: problem });
 	});
 export type ClaimRefundForm = z.infer<typeof claimRefundSchema>;
 

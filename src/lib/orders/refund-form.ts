@@ -5,6 +5,14 @@ import { parseDollarsToCents } from '$lib/shipping/settings-schema';
 
 export const REFUND_REASON_MAX = 500;
 
+/** Why a typed refund amount (dollars) cannot be refunded, or null when it can. */
+export function refundAmountProblem(amount: string): string | null {
+	if (/^\$?\s*-/.test(amount)) return 'A refund cannot be negative.';
+	const parsed = parseDollarsToCents(amount);
+	if (!parsed.ok) return parsed.problem;
+	return parsed.cents === 0 ? 'A refund must be more than $0.00.' : null;
+}
+
 export const refundFormSchema = z
 	.object({
 		/** The order's line ids, in the order the quantity boxes are shown. */
@@ -36,18 +44,8 @@ export const refundFormSchema = z
 			picked += Number(typed);
 		});
 		if (form.amount !== '') {
-			if (/^\$?\s*-/.test(form.amount)) {
-				ctx.addIssue({ code: 'custom', path: ['amount'], message: 'A refund cannot be negative.' });
-				return;
-			}
-			const parsed = parseDollarsToCents(form.amount);
-			if (!parsed.ok) ctx.addIssue({ code: 'custom', path: ['amount'], message: parsed.problem });
-			else if (parsed.cents === 0)
-				ctx.addIssue({
-					code: 'custom',
-					path: ['amount'],
-					message: 'A refund must be more than $0.00.'
-				});
+			const problem = refundAmountProblem(form.amount);
+			if (problem) ctx.addIssue({ code: 'custom', path: ['amount'], message: problem });
 		} else if (picked === 0) {
 			ctx.addIssue({
 				code: 'custom',

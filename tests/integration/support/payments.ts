@@ -8,6 +8,22 @@ import Stripe from 'stripe';
 import { handleStripeWebhook, type WebhookDeps } from '../../../src/lib/server/payments/webhook';
 import type { Db } from '../../../src/lib/server/db/connect';
 import { startStripeFake, type StripeFake } from '../../fakes/stripe/server';
+import type { CheckoutForm } from '../../../src/lib/checkout/schema';
+
+/** A checkout form for a buyer in Minneapolis (ZIP 55401), overnight, terms ticked. */
+export function checkoutAddress(email: string): CheckoutForm {
+	return {
+		email,
+		ship_name: 'Ada Buyer',
+		ship_line1: '100 Example Ave',
+		ship_line2: '',
+		ship_city: 'Minneapolis',
+		ship_state: 'MN',
+		ship_zip: '55401',
+		service: 'overnight',
+		terms: true
+	};
+}
 
 export interface PaymentsHarness {
 	fake: StripeFake;

@@ -589,6 +589,37 @@ export async function holdCart(
 }
 
 /**
+ * Locks the stock rows behind some lines: their clutches, then their supply listings,
+ * each by id. Every hold and every sale takes its locks in this order, so two buyers
+ * reaching for the same animals wait for each other instead of deadlocking. Returns
+ * the clutches locked.
+ */
+export async function lockStockOf(
+	trx: Db,
+	lines: readonly { listing_id: number; clutch_id: number | null; kind: string }[]
+): Promise<number[]> {
+	const clutchIds = [...new Set(lines.flatMap((l) => (l.clutch_id === null ? [] : [l.clutch_id])))];
+	if (clutchIds.length)
+		await trx
+			.selectFrom('clutch')
+			.select('id')
+			.where('id', 'in', clutchIds)
+			.orderBy('id')
+			.forUpdate()
+			.execute();
+	const supplyIds = [...new Set(lines.filter((l) => l.kind === 'supply').map((l) => l.listing_id))];
+	if (supplyIds.length)
+		await trx
+			.selectFrom('listing')
+			.select('id')
+			.where('id', 'in', supplyIds)
+			.orderBy('id')
+			.forUpdate()
+			.execute();
+	return clutchIds;
+}
+
+/**
  * The hold itself, in the caller's transaction (checkout holds and makes its order in
  * one): locks the cart, then the clutches and supply listings, and holds every line or
  * throws HoldRefused, which rolls back the caller's whole transaction.
@@ -610,25 +641,7 @@ export async function holdCartIn(
 		.orderBy('cart_line.listing_id')
 		.execute();
 	if (lines.length === 0) return { ok: false as const, problem: 'Your cart is empty.', lines: [] };
-	const clutchIds = [...new Set(lines.flatMap((l) => (l.clutch_id === null ? [] : [l.clutch_id])))];
-	const supplyIds = lines.filter((l) => l.kind === 'supply').map((l) => l.listing_id);
-	// Lock order: clutches, then supply listings, each by id — the same in every hold.
-	if (clutchIds.length)
-		await trx
-			.selectFrom('clutch')
-			.select('id')
-			.where('id', 'in', clutchIds)
-			.orderBy('id')
-			.forUpdate()
-			.execute();
-	if (supplyIds.length)
-		await trx
-			.selectFrom('listing')
-			.select('id')
-			.where('id', 'in', supplyIds)
-			.orderBy('id')
-			.forUpdate()
-			.execute();
+	await lockStockOf(trx, lines);
 	// A fresh statement after the locks: it sees every hold committed before them.
 	const problems: Array<{ listingId: number; problem: string; available: number }> = [];
 	for (const line of lines) {

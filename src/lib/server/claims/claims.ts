@@ -3,6 +3,7 @@
 // after delivery, with the dead counts per line and photos of the animals as they
 // arrived; the shop then decides. Photos go through the upload module, which
 // strips their metadata.
+import { DECLINE_REASON_MIN } from '$lib/claims/decision-form';
 import { CLAIMABLE_STATES, claimWindowProblem } from '$lib/claims/window';
 import type { IsoDate } from '$lib/format/dates';
 import { sql, type Kysely } from 'kysely';
@@ -33,7 +34,7 @@ export interface FileClaimInput {
 
 export { claimWindowProblem };
 
-export const MIN_DECLINE_REASON = 10;
+export const MIN_DECLINE_REASON = DECLINE_REASON_MIN;
 
 /** Where the links in claim mail point: the shop's public origin, e.g. https://shop.example.com. */
 export type ClaimLinks = { origin: string };

@@ -25,7 +25,7 @@ import {
 import { orderStateLabels } from '$lib/format/labels';
 import { MOVE_REASON_MIN_LENGTH } from '$lib/orders/state-machine';
 import { writeAudit, type Actor } from '$lib/server/audit';
-import { roleAtLeast } from '$lib/server/auth/roles';
+import { hasActiveRole } from '$lib/server/auth/active-role';
 import { resolveShopTimeZone } from '$lib/server/backoffice/settings';
 import type {
 	Database,
@@ -36,8 +36,7 @@ import type {
 	TrackingStatus
 } from '$lib/server/db/schema';
 import { queueMail } from '$lib/server/mail';
-import { moveOrder, noteOrder, type OrderActor } from '$lib/server/orders/transitions';
-import { hasLiveLine } from '$lib/server/shipping/order-checks';
+import { hasLiveLine, moveOrder, noteOrder, type OrderActor } from '$lib/server/orders/transitions';
 import { shortfallsForOrders, type ClutchShortfall } from './shortfall';
 
 type Db = Kysely<Database>;
@@ -83,20 +82,9 @@ async function settle<T>(work: Promise<T>): Promise<T | MarkRefusal> {
 	}
 }
 
-/** The role of an account that can still sign in, read from the database, never sent. */
-async function roleOf(db: Db, userId: string): Promise<Role | null> {
-	const row = await db
-		.selectFrom('user_role')
-		.select('role')
-		.where('user_id', '=', userId)
-		.where('disabled_at', 'is', null)
-		.executeTakeFirst();
-	return row?.role ?? null;
-}
-
-async function hasRole(db: Db, actor: Actor, minimum: Role): Promise<boolean> {
-	const role = await roleOf(db, actor.userId);
-	return role !== null && roleAtLeast(role, minimum);
+/** Whether the actor holds `minimum` now (read from the database, never from the session). */
+function hasRole(db: Db, actor: Actor, minimum: Role): Promise<boolean> {
+	return hasActiveRole(db, actor.userId, minimum);
 }
 
 const KEEPERS_ONLY = refusal(403, 'Only keepers and the shop owner mark boxes.');

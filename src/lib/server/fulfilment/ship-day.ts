@@ -8,6 +8,7 @@ import { buildPickList, type PickList } from '$lib/fulfilment/pick-list';
 import type { IsoDate } from '$lib/format/dates';
 import type { Database, OrderState, Pack, Service } from '../db/schema';
 import type { ForecastSource } from '../weather/source';
+import { rememberingSource } from '../shipping/inputs';
 import { latestShipCheck, previewShipCheck } from '../shipping/order-checks';
 import { shortfallsForOrders, type ClutchShortfall } from './shortfall';
 
@@ -101,6 +102,8 @@ export async function changedChecks(
 ): Promise<Map<number, CheckChange | null>> {
 	const changes = new Map<number, CheckChange | null>();
 	if (orderIds.length === 0) return changes;
+	// Every box asks for the shop's own forecast: fetch it (and each ZIP's) once.
+	const forecasts = rememberingSource(source);
 	const rows = await db
 		.selectFrom('customer_order as o')
 		.select([
@@ -128,7 +131,7 @@ export async function changedChecks(
 			continue;
 		}
 		const check = await latestShipCheck(db, row.id);
-		const look = await lookAgainAt(db, source, {
+		const look = await lookAgainAt(db, forecasts, {
 			service: row.service,
 			shipZip: row.ship_zip,
 			shipOn: row.ship_on,
@@ -231,7 +234,11 @@ export async function loadShipDay(
 		db,
 		unshipped.map((r) => r.id)
 	);
-	const lookAgain = options.source !== undefined && date >= options.today;
+	// Every box asks for the shop's own forecast: fetch it (and each ZIP's) once.
+	const forecasts =
+		options.source !== undefined && date >= options.today
+			? rememberingSource(options.source)
+			: null;
 
 	const orders = await Promise.all(
 		rows.map(async (row): Promise<ShipDayOrder> => {
@@ -241,8 +248,8 @@ export async function loadShipDay(
 			let change: CheckChange | null = null;
 			let checkUnavailable: string | null = null;
 			const live = lines.some((l) => l.order_id === row.id && l.is_live);
-			if (lookAgain && live && (row.state === 'scheduled' || row.state === 'packed')) {
-				const look = await lookAgainAt(db, options.source as ForecastSource, {
+			if (forecasts && live && (row.state === 'scheduled' || row.state === 'packed')) {
+				const look = await lookAgainAt(db, forecasts, {
 					service: row.service,
 					shipZip: row.ship_zip,
 					shipOn: date,

@@ -5,7 +5,7 @@ import type { Db } from '$lib/server/db';
 import type { ActorKind, OrderState, Pack } from '$lib/server/db/schema';
 import type { IsoDate } from '$lib/format/dates';
 import type { Reason } from '$lib/shipping/ship-check';
-import { asReasons } from '$lib/server/shipping/dispatch';
+import { latestShipCheck as latestStoredCheck } from '$lib/server/shipping/order-checks';
 
 export interface TimelineEvent {
 	id: number;
@@ -64,37 +64,23 @@ export async function orderTimeline(db: Db, orderId: number): Promise<TimelineEv
 	}));
 }
 
-/** The newest ship check of the order, or null when none has run yet. */
+/**
+ * The newest ship check of the order as the order pages show it, or null when none has
+ * run yet: the stored check the ship-check module reads, without its inputs snapshot.
+ */
 export async function latestShipCheck(db: Db, orderId: number): Promise<OrderShipCheck | null> {
-	const row = await db
-		.selectFrom('ship_check')
-		.select([
-			'decision',
-			'ship_date',
-			'delivery_date',
-			'recheck_date',
-			'packs',
-			'facility_pickup',
-			'reasons',
-			'override_reason',
-			'checked_at'
-		])
-		.where('order_id', '=', orderId)
-		.orderBy('checked_at', 'desc')
-		.orderBy('id', 'desc')
-		.limit(1)
-		.executeTakeFirst();
-	if (!row) return null;
+	const check = await latestStoredCheck(db, orderId);
+	if (!check) return null;
 	return {
-		decision: row.decision,
-		shipDate: row.ship_date,
-		deliveryDate: row.delivery_date,
-		recheckDate: row.recheck_date,
-		packs: row.packs,
-		facilityPickup: row.facility_pickup,
-		reasons: asReasons(row.reasons),
-		overrideReason: row.override_reason,
-		checkedAt: row.checked_at
+		decision: check.decision,
+		shipDate: check.shipDate,
+		deliveryDate: check.deliveryDate,
+		recheckDate: check.recheckDate,
+		packs: check.packs,
+		facilityPickup: check.facilityPickup,
+		reasons: check.reasons,
+		overrideReason: check.overrideReason,
+		checkedAt: check.checkedAt
 	};
 }
 

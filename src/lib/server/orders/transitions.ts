@@ -2,9 +2,10 @@
 // through `moveOrder` inside the caller's transaction: it locks the order row, asks
 // the state machine (src/lib/orders/state-machine.ts), and only then writes the new
 // state, the order's history and the audit entry. A refusal writes nothing.
-import type { Transaction } from 'kysely';
+import type { Kysely, Transaction } from 'kysely';
 import { writeAudit } from '$lib/server/audit';
-import type { CustomerOrderTable, Database, OrderState, Role } from '$lib/server/db/schema';
+import { activeRole } from '$lib/server/auth/active-role';
+import type { CustomerOrderTable, Database, OrderState } from '$lib/server/db/schema';
 import { moveProblem, type MoveActor } from '$lib/orders/state-machine';
 import type { Updateable } from 'kysely';
 
@@ -42,13 +43,20 @@ export type MoveOutcome =
 
 async function moverOf(trx: Trx, actor: OrderActor): Promise<MoveActor | null> {
 	if (actor.kind !== 'user') return actor;
-	const row = await trx
-		.selectFrom('user_role')
-		.select(['role', 'disabled_at'])
-		.where('user_id', '=', actor.userId)
+	const role = await activeRole(trx, actor.userId);
+	return role ? { kind: 'user', role } : null;
+}
+
+/** Whether an order has anything live in it (only live animals are weather-gated). */
+export async function hasLiveLine(db: Kysely<Database>, orderId: number): Promise<boolean> {
+	const live = await db
+		.selectFrom('order_line')
+		.select('id')
+		.where('order_id', '=', orderId)
+		.where('is_live', '=', true)
+		.limit(1)
 		.executeTakeFirst();
-	if (!row || row.disabled_at !== null) return null;
-	return { kind: 'user', role: row.role satisfies Role };
+	return live !== undefined;
 }
 
 function refused(orderId: number, from: OrderState | null, problem: string): MoveOutcome {
@@ -86,16 +94,9 @@ export async function moveOrder(
 	}
 	const mover = await moverOf(trx, actor);
 	if (!mover) return refused(orderId, order.state, 'That account cannot change orders.');
-	const live = await trx
-		.selectFrom('order_line')
-		.select('id')
-		.where('order_id', '=', orderId)
-		.where('is_live', '=', true)
-		.limit(1)
-		.executeTakeFirst();
 	const problem = moveProblem(order.state, to, mover, {
 		reason: note,
-		live: live !== undefined,
+		live: await hasLiveLine(trx, orderId),
 		heldCents: order.paid_cents - order.refunded_cents
 	});
 	if (problem) return refused(orderId, order.state, `${order.order_number}: ${problem}`);

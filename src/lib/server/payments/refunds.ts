@@ -9,6 +9,7 @@ import type Stripe from 'stripe';
 import type { Db } from '$lib/server/db';
 import type { Database, OrderState, RefundStatus } from '$lib/server/db/schema';
 import { writeAudit, type Actor } from '$lib/server/audit';
+import { hasActiveRole } from '$lib/server/auth/active-role';
 import { moveOrder, noteOrder, type OrderActor } from '$lib/server/orders/transitions';
 import { adminAddresses, queueMail } from '$lib/server/mail';
 import { stateAfterRefund } from '$lib/orders/state-machine';
@@ -110,16 +111,6 @@ async function linesTaken(trx: Db | Trx, orderId: number): Promise<Map<number, R
 	);
 }
 
-async function isAdmin(db: Db, userId: string): Promise<boolean> {
-	const row = await db
-		.selectFrom('user_role')
-		.select('role')
-		.where('user_id', '=', userId)
-		.where('disabled_at', 'is', null)
-		.executeTakeFirst();
-	return row?.role === 'admin';
-}
-
 type Prepared = {
 	refundId: number;
 	orderId: number;
@@ -158,7 +149,8 @@ export async function refundOrder(
 		if (seen.has(line.orderLineId)) return refusal('A line is listed twice.', 'lines');
 		seen.add(line.orderLineId);
 	}
-	if (!(await isAdmin(db, actor.userId))) return refusal('Only an admin can refund an order.');
+	if (!(await hasActiveRole(db, actor.userId, 'admin')))
+		return refusal('Only an admin can refund an order.');
 
 	const prepared = await db
 		.transaction()

@@ -11,6 +11,7 @@ import { writeAudit } from '$lib/server/audit';
 import { moveOrder, noteOrder } from '$lib/server/orders/transitions';
 import { syncClutchSoldOut } from '$lib/server/listings/listings';
 import { queueMail } from '$lib/server/mail';
+import { lockStockOf } from '$lib/server/cart/cart';
 import { refundTurnedBack } from './refunds';
 
 type Trx = Transaction<Database>;
@@ -177,25 +178,7 @@ async function completed(
 		.where('order_line.order_id', '=', order.id)
 		.orderBy('order_line.id')
 		.execute();
-	// Clutches before listing rows, each by id: the order every hold takes its locks in.
-	const clutchIds = [...new Set(lines.flatMap((l) => (l.clutch_id === null ? [] : [l.clutch_id])))];
-	if (clutchIds.length)
-		await trx
-			.selectFrom('clutch')
-			.select('id')
-			.where('id', 'in', clutchIds)
-			.orderBy('id')
-			.forUpdate()
-			.execute();
-	const supplyIds = lines.filter((l) => l.kind === 'supply').map((l) => l.listing_id);
-	if (supplyIds.length)
-		await trx
-			.selectFrom('listing')
-			.select('id')
-			.where('id', 'in', supplyIds)
-			.orderBy('id')
-			.forUpdate()
-			.execute();
+	const clutchIds = await lockStockOf(trx, lines);
 
 	const intent = intentId(session);
 	const sellable =

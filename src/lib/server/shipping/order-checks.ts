@@ -15,7 +15,7 @@ import { writeAudit, type Actor } from '$lib/server/audit';
 import { shopClock } from '$lib/server/backoffice/settings';
 import type { Database, OrderState, Pack, Service, ShopSetting } from '$lib/server/db/schema';
 import { queueMail } from '$lib/server/mail';
-import { moveOrder, noteOrder, type OrderActor } from '$lib/server/orders/transitions';
+import { hasLiveLine, moveOrder, noteOrder, type OrderActor } from '$lib/server/orders/transitions';
 import type { ForecastSource } from '$lib/server/weather/source';
 import { deliveryDateFor } from '$lib/shipping/calendar';
 import { overrideReasonProblem, overrideShipDateProblem } from '$lib/shipping/override';
@@ -194,18 +194,6 @@ async function readOrder(db: Db, orderId: number, lock: boolean): Promise<OrderR
 		.where('id', '=', orderId);
 	if (lock) query = query.forUpdate();
 	return query.executeTakeFirst();
-}
-
-/** Whether an order has anything live in it (only live animals are weather-gated). */
-export async function hasLiveLine(db: Db, orderId: number): Promise<boolean> {
-	const live = await db
-		.selectFrom('order_line')
-		.select('id')
-		.where('order_id', '=', orderId)
-		.where('is_live', '=', true)
-		.limit(1)
-		.executeTakeFirst();
-	return live !== undefined;
 }
 
 async function settingsOf(db: Db): Promise<ShopSetting> {
