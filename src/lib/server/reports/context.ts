@@ -1,0 +1,66 @@
+// What every report query gets, and the SQL pieces they share: the range's bounds as
+// instants in the shop's zone, and an instant's month or week there. Each report module
+// sums in PostgreSQL and hands back ReportSections; nothing sums rows in JavaScript.
+import { sql, type RawBuilder } from 'kysely';
+import type { Db } from '$lib/server/db';
+import type { IsoDate } from '$lib/format/dates';
+import type { ReportFilter, ReportSection } from '$lib/reports/report';
+
+export interface ReportContext {
+	db: Db;
+	/** First and last calendar day of the range, both included, in the shop's zone. */
+	from: IsoDate;
+	to: IsoDate;
+	timeZone: string;
+	today: IsoDate;
+	/** Admins see money; keepers get the same report without its money columns. */
+	money: boolean;
+	/** The URL's query, for the report's own filters. */
+	params: URLSearchParams;
+}
+
+/** What a report module returns; the endpoint adds the range and the names. */
+export interface ReportBody {
+	filters: ReportFilter[];
+	sections: ReportSection[];
+	notes: string[];
+}
+
+export type ReportRunner = (context: ReportContext) => Promise<ReportBody>;
+
+/** The instant the range starts: midnight of `from` in the shop's zone. */
+export function rangeStart(context: Pick<ReportContext, 'from' | 'timeZone'>): RawBuilder<Date> {
+	return sql<Date>`((${context.from}::date)::timestamp at time zone ${context.timeZone})`;
+}
+
+/** The instant just after the range: midnight after `to` in the shop's zone (exclusive). */
+export function rangeEnd(context: Pick<ReportContext, 'to' | 'timeZone'>): RawBuilder<Date> {
+	return sql<Date>`(((${context.to}::date) + 1)::timestamp at time zone ${context.timeZone})`;
+}
+
+/** 'YYYY-MM' of a timestamptz column in the shop's zone. */
+export function monthOf(column: string, timeZone: string): RawBuilder<string> {
+	return sql<string>`to_char(${sql.ref(column)} at time zone ${timeZone}, 'YYYY-MM')`;
+}
+
+/** The Monday ('YYYY-MM-DD') of the ISO week a timestamptz column falls in, in the shop's zone. */
+export function weekOf(column: string, timeZone: string): RawBuilder<string> {
+	return sql<string>`to_char(date_trunc('week', ${sql.ref(column)} at time zone ${timeZone}), 'YYYY-MM-DD')`;
+}
+
+/** Every month of the range as 'YYYY-MM', for reports that show empty months as zero. */
+export function monthSeries(context: Pick<ReportContext, 'from' | 'to'>): RawBuilder<string> {
+	return sql<string>`to_char(generate_series(date_trunc('month', ${context.from}::date), ${context.to}::date, interval '1 month'), 'YYYY-MM')`;
+}
+
+/** A fraction kept to four decimals, or null when there is nothing to divide by. */
+export function fraction(part: number, whole: number): number | null {
+	if (!whole) return null;
+	return Math.round((part / whole) * 10_000) / 10_000;
+}
+
+/** The filter's applied value when it is one of its options, else '' (all). */
+export function chosen(params: URLSearchParams, key: string, values: readonly string[]): string {
+	const raw = params.get(key) ?? '';
+	return values.includes(raw) ? raw : '';
+}

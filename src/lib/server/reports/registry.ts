@@ -1,0 +1,19 @@
+// Which module draws which report.
+import type { ReportName } from '$lib/reports/report';
+import type { ReportBody, ReportContext, ReportRunner } from './context';
+import { colonyHealthReport } from './colony-health';
+import { salesReport } from './sales';
+import { stockDemandReport } from './stock-demand';
+
+// Partial while the reports are being added; runReport refuses a name not here.
+const RUNNERS: Partial<Record<ReportName, ReportRunner>> = {
+	sales: salesReport,
+	'colony-health': colonyHealthReport,
+	'stock-demand': stockDemandReport
+};
+
+export function runReport(name: ReportName, context: ReportContext): Promise<ReportBody> {
+	const runner = RUNNERS[name];
+	if (!runner) throw new Error(`no runner for the ${name} report`);
+	return runner(context);
+}
