@@ -357,7 +357,7 @@ describe('sales report', () => {
 		const quiet = await salesReport(context('2025-06-01', '2025-06-30'));
 		for (const part of quiet.sections) {
 			expect(part.table.rows).toEqual([]);
-			expect(part.empty).toMatch(/2025-06-01 to 2025-06-30/);
+			expect(part.empty).toMatch(/Jun 1, 2025 to Jun 30, 2025/);
 		}
 		const keeper = await salesReport(context('2026-01-01', '2026-03-31', {}, false));
 		expect(section(keeper.sections, 'by-month').chart?.series).toEqual([

@@ -154,6 +154,14 @@ export const icons = {
 		{ d: 'M11 7.5h9M11 14h9M4 19.5h16' }
 	],
 	bars: [{ d: 'M4 20.5h16' }, { d: 'M6.5 17V11M11 17V6.5M15.5 17v-8M20 17v-4' }],
+	// Reports: two axes and a line that climbs.
+	trend: [{ d: 'M4 3.5v16.5h16.5' }, { d: 'M7.5 15.5l3.6-4.3 3 2.6 5.4-6.6' }],
+	// A file to keep: an arrow into a tray.
+	download: [
+		{ d: 'M12 3.5v11.5' },
+		{ d: 'M7.5 10.5 12 15l4.5-4.5' },
+		{ d: 'M4.5 16.5v3.5h15v-3.5' }
+	],
 	layers: [
 		{ d: 'm12 4 8.5 4.3L12 12.6 3.5 8.3z' },
 		{ d: 'm3.5 12.3 8.5 4.3 8.5-4.3M3.5 16.3l8.5 4.3 8.5-4.3' }

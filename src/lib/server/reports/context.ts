@@ -4,6 +4,7 @@
 import { sql, type RawBuilder } from 'kysely';
 import type { Db } from '$lib/server/db';
 import type { IsoDate } from '$lib/format/dates';
+import { formatCell } from '$lib/reports/cells';
 import type { ReportFilter, ReportSection } from '$lib/reports/report';
 
 export interface ReportContext {
@@ -63,4 +64,9 @@ export function fraction(part: number, whole: number): number | null {
 export function chosen(params: URLSearchParams, key: string, values: readonly string[]): string {
 	const raw = params.get(key) ?? '';
 	return values.includes(raw) ? raw : '';
+}
+
+/** "Jan 1, 2026 to Mar 31, 2026": the range as the empty states and summaries say it. */
+export function rangeWords(context: Pick<ReportContext, 'from' | 'to'>): string {
+	return `${formatCell('date', context.from)} to ${formatCell('date', context.to)}`;
 }

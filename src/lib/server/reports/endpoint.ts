@@ -49,7 +49,11 @@ export async function reportEndpoint(
 	const today = todayInZone(timeZone);
 	const range = parseReportRange(event.url.searchParams, today);
 	if (!range.ok) {
-		return refuse(400, Object.values(range.errors).join(' '), asCsv);
+		const message = Object.values(range.errors).join(' ');
+		// The page puts each reason beside its field.
+		return asCsv
+			? refuse(400, message, true)
+			: json({ message, errors: range.errors }, { status: 400 });
 	}
 	const money = user.role === 'admin';
 	const body = await runReport(name, {

@@ -11,6 +11,7 @@ import {
 	monthSeries,
 	rangeEnd,
 	rangeStart,
+	rangeWords,
 	type ReportContext,
 	type ReportRunner
 } from './context';
@@ -107,7 +108,7 @@ export const salesReport: ReportRunner = async (context) => {
 		salesBySpecies(context, onlySpecies?.id ?? null),
 		animalsByMonthAndSpecies(context, onlySpecies?.id ?? null)
 	]);
-	const range = `${context.from} to ${context.to}`;
+	const range = rangeWords(context);
 	const what = onlySpecies ? onlySpecies.common_name : 'anything';
 
 	const moneyColumns: ReportColumn[] = [
@@ -118,9 +119,11 @@ export const salesReport: ReportRunner = async (context) => {
 	const monthSection: ReportSection = {
 		id: 'by-month',
 		title: 'By month',
-		lead: onlySpecies
-			? `${onlySpecies.common_name} only: revenue is the price of its lines, refunds their share.`
-			: 'Revenue is what the card payments took, shipping included.',
+		lead: !context.money
+			? 'Live animals sold on paid orders.'
+			: onlySpecies
+				? `${onlySpecies.common_name} only: revenue is the price of its lines, refunds their share.`
+				: 'Revenue is what the card payments took, shipping included.',
 		chart: context.money
 			? {
 					kind: 'bar',
@@ -162,9 +165,10 @@ export const salesReport: ReportRunner = async (context) => {
 	const speciesSection: ReportSection = {
 		id: 'by-species',
 		title: 'By species',
-		lead: onlySpecies
-			? undefined
-			: 'Supplies and shipping have rows of their own, so the rows add up to the payments.',
+		lead:
+			onlySpecies || !context.money
+				? undefined
+				: 'Supplies and shipping have rows of their own, so the rows add up to the payments.',
 		chart: {
 			kind: 'bar',
 			horizontal: true,
