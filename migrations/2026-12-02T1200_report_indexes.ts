@@ -15,8 +15,22 @@ const INDEXES: { name: string; create: string }[] = [
 	{
 		name: 'refund_succeeded_idx',
 		create: `create index refund_succeeded_idx on refund (created_at) include (amount_cents) where status = 'succeeded'`
+	},
+	// survival and tub yield: clutches are found by found_on (clutch_found_idx already);
+	// their losses and moves-in are few rows of clutch_event, read per clutch; tubs by
+	// the day they were set aside. The kind lists match the reports' literal predicates.
+	{
+		name: 'clutch_event_loss_idx',
+		create: `create index clutch_event_loss_idx on clutch_event (clutch_id, happened_on) include (count_delta) where kind in ('loss', 'count') and count_delta < 0`
+	},
+	{
+		name: 'clutch_event_moved_in_idx',
+		create: `create index clutch_event_moved_in_idx on clutch_event (clutch_id) include (count_delta) where kind in ('split_in', 'merge_in')`
+	},
+	{
+		name: 'resting_tub_started_idx',
+		create: `create index resting_tub_started_idx on resting_tub (started_on)`
 	}
-	// survival and tub yield: (added with those reports)
 	// colony health and stock and demand: (added with those reports)
 	// shipping: (added with that report)
 ];

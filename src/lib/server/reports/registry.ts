@@ -4,12 +4,16 @@ import type { ReportBody, ReportContext, ReportRunner } from './context';
 import { colonyHealthReport } from './colony-health';
 import { salesReport } from './sales';
 import { stockDemandReport } from './stock-demand';
+import { survivalReport } from './survival';
+import { tubYieldReport } from './tub-yield';
 
 // Partial while the reports are being added; runReport refuses a name not here.
 const RUNNERS: Partial<Record<ReportName, ReportRunner>> = {
 	sales: salesReport,
 	'colony-health': colonyHealthReport,
-	'stock-demand': stockDemandReport
+	'stock-demand': stockDemandReport,
+	survival: survivalReport,
+	'tub-yield': tubYieldReport
 };
 
 export function runReport(name: ReportName, context: ReportContext): Promise<ReportBody> {
