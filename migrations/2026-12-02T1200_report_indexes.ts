@@ -30,9 +30,22 @@ const INDEXES: { name: string; create: string }[] = [
 	{
 		name: 'resting_tub_started_idx',
 		create: `create index resting_tub_started_idx on resting_tub (started_on)`
-	}
+	},
 	// colony health and stock and demand: (added with those reports)
-	// shipping: (added with that report)
+	// shipping: boxes by shipped_at (only shipped ones), weather holds by when they began
+	// (the hold's lift is found per order through order_event_order_idx), claims by filing.
+	{
+		name: 'shipment_shipped_idx',
+		create: `create index shipment_shipped_idx on shipment (shipped_at) include (order_id, packs) where shipped_at is not null`
+	},
+	{
+		name: 'order_event_hold_idx',
+		create: `create index order_event_hold_idx on order_event (created_at) include (order_id, from_state) where to_state = 'weather_hold'`
+	},
+	{
+		name: 'claim_filed_idx',
+		create: `create index claim_filed_idx on claim (filed_at) include (order_id, state, refund_id)`
+	}
 ];
 
 export async function up(db: AnyDb): Promise<void> {
