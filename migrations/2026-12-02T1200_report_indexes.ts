@@ -31,7 +31,13 @@ const INDEXES: { name: string; create: string }[] = [
 		name: 'resting_tub_started_idx',
 		create: `create index resting_tub_started_idx on resting_tub (started_on)`
 	},
-	// colony health and stock and demand: (added with those reports)
+	// colony health: care-log entries of some kinds over a range of days; refreshes and
+	// moisture checks are read from the index alone. Stock and demand reads all that is
+	// listed and waited for, with no range: no index of its own.
+	{
+		name: 'care_log_kind_day_idx',
+		create: `create index care_log_kind_day_idx on care_log_entry (kind, logged_on) include (colony_id, moisture_reading)`
+	},
 	// shipping: boxes by shipped_at (only shipped ones), weather holds by when they began
 	// (the hold's lift is found per order through order_event_order_idx), claims by filing.
 	{

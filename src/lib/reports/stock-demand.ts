@@ -50,14 +50,13 @@ export function stockDemandRows(
 	const pipelineBySpecies = new Map(pipeline.map((row) => [row.speciesId, row]));
 	return [...demand]
 		.sort((a, b) => a.commonName.localeCompare(b.commonName, 'en') || a.speciesId - b.speciesId)
-		.map((species) => {
+		.flatMap((species): ReportRow[] => {
 			const row = pipelineBySpecies.get(species.speciesId) ?? null;
 			// readyNow + within[2] + later + paused: every animal the pipeline counts.
 			const inPipeline = row ? comingWithin12Weeks(row) + row.later + row.paused : 0;
 			const anything = inPipeline + species.inShop + species.waiting + species.unconfirmed > 0;
-			return anything ? { species: species.commonName, ...cells(row, species) } : null;
-		})
-		.filter((row): row is ReportRow => row !== null);
+			return anything ? [{ species: species.commonName, ...cells(row, species) }] : [];
+		});
 }
 
 /** The closing row: the pipeline's own totals beside the demand totals. */
