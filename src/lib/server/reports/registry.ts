@@ -1,4 +1,5 @@
-// Which module draws which report.
+// Which module draws which report, and the one read-only snapshot each report runs in.
+import { sql } from 'kysely';
 import type { ReportName } from '$lib/reports/report';
 import type { ReportBody, ReportContext, ReportRunner } from './context';
 import { colonyHealthReport } from './colony-health';
@@ -8,8 +9,7 @@ import { stockDemandReport } from './stock-demand';
 import { survivalReport } from './survival';
 import { tubYieldReport } from './tub-yield';
 
-// Partial while the reports are being added; runReport refuses a name not here.
-const RUNNERS: Partial<Record<ReportName, ReportRunner>> = {
+const RUNNERS: Record<ReportName, ReportRunner> = {
 	sales: salesReport,
 	shipping: shippingReport,
 	'colony-health': colonyHealthReport,
@@ -18,8 +18,20 @@ const RUNNERS: Partial<Record<ReportName, ReportRunner>> = {
 	'tub-yield': tubYieldReport
 };
 
+/**
+ * Runs a report in one repeatable-read, read-only transaction, so its sections agree
+ * with each other even while sales go on. JIT compilation is off for it: these are
+ * short aggregates, and compiling them costs more than it saves (measured on the
+ * shipping report over 100,000 orders: 1.1 s of a 1.5 s query was compiling).
+ */
 export function runReport(name: ReportName, context: ReportContext): Promise<ReportBody> {
 	const runner = RUNNERS[name];
-	if (!runner) throw new Error(`no runner for the ${name} report`);
-	return runner(context);
+	return context.db
+		.transaction()
+		.setIsolationLevel('repeatable read')
+		.setAccessMode('read only')
+		.execute(async (trx) => {
+			await sql`set local jit = off`.execute(trx);
+			return runner({ ...context, db: trx });
+		});
 }
