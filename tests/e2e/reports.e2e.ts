@@ -21,6 +21,7 @@ async function chartsDrawn(page: Page): Promise<number> {
 test('the owner changes the range of the sales report and downloads its table', async ({
 	page
 }, info) => {
+	test.setTimeout(120_000);
 	await signInAsDemo(page, 'admin', '/manage');
 	await page.getByRole('link', { name: 'Reports' }).first().click();
 	await expect(page.getByRole('heading', { level: 1, name: 'Reports' })).toBeVisible();
@@ -67,7 +68,7 @@ test('the owner changes the range of the sales report and downloads its table', 
 test('every report draws its charts with data, and axe finds nothing serious', async ({
 	page
 }, info) => {
-	test.setTimeout(90_000);
+	test.setTimeout(180_000);
 	await signInAsDemo(page, 'admin', '/manage/reports');
 	for (const name of REPORT_NAMES) {
 		await page.goto(`/manage/reports/${name}?from=2026-01-01&to=2026-12-01`);
