@@ -1,6 +1,7 @@
 // The reports' JSON and CSV routes over the seeded demo, through the built app: who may
 // ask, what a keeper is not sent, how a bad range is refused, and what the CSV holds.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { sql } from 'kysely';
 import { parse } from 'csv-parse/sync';
 import { seedDemo } from '../../seed/demo';
 import { DEMO_ACCOUNTS } from '../../seed/accounts';
@@ -89,6 +90,26 @@ describe('report routes', () => {
 			await ask('keeper', `/api/manage/reports/sales?${RANGE}&format=csv&section=by-month`)
 		).text();
 		expect(csv).not.toMatch(/USD/);
+	});
+
+	it('nets the demo to its payments less its succeeded refunds', async () => {
+		const report = (await (
+			await ask('admin', `/api/manage/reports/sales?${RANGE}`)
+		).json()) as ReportResult;
+		const zone = report.timeZone;
+		const start = sql`('2026-01-01'::date)::timestamp at time zone ${zone}`;
+		const end = sql`('2026-12-02'::date)::timestamp at time zone ${zone}`;
+		const { rows } = await sql<{ paid: string; refunded: string }>`
+			select
+				(select coalesce(sum(amount_cents), 0) from payment
+					where status = 'succeeded' and updated_at >= ${start} and updated_at < ${end}) as paid,
+				(select coalesce(sum(amount_cents), 0) from refund
+					where status = 'succeeded' and created_at >= ${start} and created_at < ${end}) as refunded
+		`.execute(scratch.db);
+		const ledgerNet = Number(rows[0]!.paid) - Number(rows[0]!.refunded);
+		expect(Number(rows[0]!.refunded)).toBeGreaterThan(0);
+		for (const id of ['by-month', 'by-species'])
+			expect(report.sections.find((s) => s.id === id)?.table.totals?.net, id).toBe(ledgerNet);
 	});
 
 	it('refuses a range that ends before it starts, or spans ten years, with words', async () => {
