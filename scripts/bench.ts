@@ -1,7 +1,10 @@
 // npm run bench: the catalogue's speed against the production build, measured side by side
 // in one run on a seeded database of more than 12,000 live listings. Prints three ratios:
 // catalogue page 1 requests/s ÷ a static file's requests/s from the same server, p95 of
-// page 500 ÷ p95 of page 1, and the gzipped JavaScript the catalogue page loads.
+// page 500 ÷ p95 of page 1, and the gzipped JavaScript the catalogue page loads. Then the
+// owner's reports over the demo plus 100,000 generated orders, each drawn in-process for
+// 12 months and for 5 years beside a baseline query: median and p95, and both ÷ the
+// baseline and ÷ the one-second budget (also written to .data/bench-reports.json).
 // A script, never a test: the figures depend on the machine, the ratios much less.
 // Traffic goes only to 127.0.0.1; every request loop stops by itself at a count and a time.
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
@@ -9,10 +12,12 @@ import {
 	closeSync,
 	createWriteStream,
 	existsSync,
+	mkdirSync,
 	openSync,
 	readFileSync,
 	readdirSync,
-	statSync
+	statSync,
+	writeFileSync
 } from 'node:fs';
 import { createServer } from 'node:net';
 import path from 'node:path';
@@ -22,10 +27,12 @@ import { gzipSync } from 'node:zlib';
 import autocannon from 'autocannon';
 import { sql } from 'kysely';
 import { planBenchCatalogue, type BenchListing, type BenchSpecies } from '../seed/bench-catalogue';
+import { addBenchOrders, BENCH_ORDERS, type BenchOrdersResult } from '../seed/bench-orders';
 import { dateInTimeZone } from '../seed/dates';
 import { seedDemo } from '../seed/demo';
 import { DEMO_SHOP } from '../seed/sales';
 import { createDb, type Db } from '../src/lib/server/db/connect';
+import { resolveShopTimeZone } from '../src/lib/server/backoffice/settings';
 import { assertMigrated, migratorFor } from '../src/lib/server/db/migrator';
 import { installJobSchema } from '../src/lib/server/jobs';
 import { speciesPrefix } from '../src/lib/server/stock/codes';
@@ -36,6 +43,8 @@ import {
 	staticImportUrls,
 	textTable
 } from './bench/measure';
+import { REPORT_BUDGET_MS, TIMING_HEADER, timingCells } from './bench/report-timing';
+import { BASELINE_SQL, measureReports, type ReportsPhaseResult } from './bench/reports';
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 const BENCH_DATABASE = 'hatchlot_bench';
@@ -55,12 +64,15 @@ const BUILD_LOCK = '/tmp/hatchlot-build.lock';
 const SERVER_DIR = path.join(ROOT, '.data', 'bench-build');
 const SERVER_LOG = path.join(ROOT, '.data', 'bench-server.log');
 const BUILD_LOG = path.join(ROOT, '.data', 'bench-build.log');
+const REPORTS_JSON = path.join(ROOT, '.data', 'bench-reports.json');
 
 /** Throughput: the same settings for the page and the static file. */
 const CANNON = { connections: 10, warmupSeconds: 2, seconds: 8, maxRequests: 1_000_000 };
 /** Latency: sequential requests of page 1 and page 500, taken in turn. */
 const LATENCY = { warmup: 20, samples: 200, maxSeconds: 180 };
 const WALK_MAX_SECONDS = 300;
+/** Reports: one warm-up round, then rounds of every report and range, each beside its baseline. */
+const REPORT_ROUNDS = { warmup: 1, rounds: 7, maxSeconds: 300 };
 const REQUEST_TIMEOUT_MS = 15_000;
 
 const startedAt = performance.now();
@@ -245,6 +257,40 @@ async function fillCatalogue(benchUrl: string, today: string): Promise<number> {
 			.where((eb) => eb.or([eb('listing.kind', '=', 'supply'), eb('clutch.state', '=', 'listed')]))
 			.executeTakeFirstOrThrow();
 		return Number(live);
+	} finally {
+		await db.destroy();
+	}
+}
+
+/** The generated order history, once, on top of the demo and the catalogue. */
+async function fillOrders(benchUrl: string, today: string): Promise<BenchOrdersResult> {
+	const db = createDb(benchUrl, 2);
+	try {
+		return await addBenchOrders(db, { today, orders: BENCH_ORDERS });
+	} finally {
+		await db.destroy();
+	}
+}
+
+/** Every report timed in-process on the bench database, or null when the reports do not load. */
+async function timeReports(
+	benchUrl: string,
+	today: string
+): Promise<{ timeZone: string; result: ReportsPhaseResult } | null> {
+	const db = createDb(benchUrl, 2);
+	try {
+		const timeZone = await resolveShopTimeZone(
+			db,
+			process.env.SHOP_TIME_ZONE ?? DEMO_SHOP.timeZone
+		);
+		const result = await measureReports(db, { today, timeZone, ...REPORT_ROUNDS, say });
+		return { timeZone, result };
+	} catch (error) {
+		// The catalogue figures are already out; a report module that does not load costs only this.
+		console.error(
+			`\x1b[1;31m[bench]\x1b[0m reports not timed: ${error instanceof Error ? error.message : String(error)}`
+		);
+		return null;
 	} finally {
 		await db.destroy();
 	}
@@ -514,6 +560,15 @@ async function main(): Promise<void> {
 	if (live < FAR_PAGE * PAGE_SIZE)
 		throw new BenchError(`${int(live)} live listings do not fill ${FAR_PAGE} pages`);
 
+	since = performance.now();
+	say(`adding ${int(BENCH_ORDERS)} generated orders over the three years before ${today}…`);
+	const orders = await fillOrders(bench, today);
+	const orderRows = Object.values(orders.counts).reduce((sum, n) => sum + n, 0);
+	say(
+		`${int(orders.counts.customer_order)} orders (reships included), ${int(orderRows)} rows in ${seconds(since)} ` +
+			`(planned in ${(orders.planMs / 1000).toFixed(1)} s, written in ${(orders.insertMs / 1000).toFixed(1)} s)`
+	);
+
 	prepareBuild();
 	since = performance.now();
 	await startServer(bench);
@@ -601,6 +656,47 @@ async function main(): Promise<void> {
 		`catalogue JavaScript, gzipped         ${bytes(gzipTotal)} (${(gzipTotal / 1024).toFixed(1)} KiB, ${scripts.length} files)`
 	);
 	console.log('');
+
+	say(
+		`reports: ${REPORT_ROUNDS.warmup} warm-up and ${REPORT_ROUNDS.rounds} timed rounds, each run beside \`${BASELINE_SQL}\`…`
+	);
+	since = performance.now();
+	const reports = await timeReports(bench, today);
+	if (reports) {
+		const { result, timeZone } = reports;
+		say(`reports timed in ${seconds(since)}`);
+		console.log('');
+		console.log(
+			`Hatchlot reports bench: in-process on ${BENCH_DATABASE}, the demo plus ${int(orders.counts.customer_order)} ` +
+				`generated orders, today ${today} (${timeZone}), money shown, no filters, ${result.rounds} rounds`
+		);
+		console.log('');
+		console.log(textTable([...TIMING_HEADER], result.rows.map(timingCells)));
+		console.log('');
+		for (const row of result.rows.filter((r) => r.problem))
+			console.log(`${row.report} (${row.range}): ${row.problem}`);
+		mkdirSync(path.dirname(REPORTS_JSON), { recursive: true });
+		writeFileSync(
+			REPORTS_JSON,
+			JSON.stringify(
+				{
+					measuredAt: new Date().toISOString(),
+					database: BENCH_DATABASE,
+					today,
+					timeZone,
+					orders: orders.counts,
+					orderStates: orders.states,
+					baseline: result.baselineSql,
+					rounds: result.rounds,
+					budgetMs: REPORT_BUDGET_MS,
+					reports: result.rows
+				},
+				null,
+				'\t'
+			) + '\n'
+		);
+		say(`report figures written to ${path.relative(ROOT, REPORTS_JSON)}`);
+	}
 	say(`done in ${seconds(startedAt)}; ${BENCH_DATABASE} is kept for a look until the next run`);
 }
 
