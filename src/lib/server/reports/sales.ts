@@ -368,8 +368,9 @@ async function salesBySpecies(
 				sql<number | null>`null::integer`.as('species_id'),
 				sql<number>`count(*)`.as('orders'),
 				sql<number>`0`.as('animals'),
-				// What the payment took beyond its lines: shipping, in practice.
-				sql<number>`coalesce(sum(paid.amount_cents - (select coalesce(sum(ol.line_total_cents), 0) from order_line ol where ol.order_id = paid.order_id)), 0)`.as(
+				// What the payments took beyond their lines (shipping, in practice): all that
+				// was paid less the line revenue 'sold' already summed.
+				sql<number>`coalesce(sum(paid.amount_cents), 0) - coalesce((select sum(revenue) from sold), 0)`.as(
 					'revenue'
 				)
 			])
