@@ -1,0 +1,178 @@
+import type { RequestEvent, ResolveOptions } from '@sveltejs/kit';
+import { describe, expect, it, vi } from 'vitest';
+import {
+	ALWAYS,
+	DATA_POLICY,
+	HSTS,
+	OTHER_HTML_POLICY,
+	isCrossSiteWrite,
+	securityHeaders
+} from './security-headers';
+
+const SHOP = 'http://127.0.0.1:3000';
+
+function request(method: string, path: string, headers: Record<string, string> = {}) {
+	return new Request(`${SHOP}${path}`, { method, headers });
+}
+
+/** Only url and request are read by the handle; the rest of a RequestEvent is not needed. */
+function eventFor(req: Request, origin = SHOP): RequestEvent {
+	const url = new URL(new URL(req.url).pathname, origin);
+	return { request: req, url } as unknown as RequestEvent;
+}
+
+async function run(req: Request, answer: Response, origin = SHOP) {
+	const resolve = vi.fn(async (_event: RequestEvent, _options?: ResolveOptions) => answer);
+	const response = await securityHeaders({ event: eventFor(req, origin), resolve });
+	return { response, resolve };
+}
+
+describe('isCrossSiteWrite', () => {
+	// Origin is sent by browsers on every POST, PUT, PATCH and DELETE (WHATWG Fetch
+	// standard, "append a request Origin header"); Sec-Fetch-Site takes one of
+	// cross-site, same-site, same-origin or none (W3C Fetch Metadata Request Headers).
+	const url = (path: string) => new URL(path, SHOP);
+
+	it('lets reads through from anywhere', () => {
+		for (const method of ['GET', 'HEAD', 'OPTIONS'])
+			expect(
+				isCrossSiteWrite(
+					request(method, '/api/cart', { origin: 'https://evil.test' }),
+					url('/api/cart')
+				)
+			).toBe(false);
+	});
+
+	it('refuses writes whose Origin is another site, a sibling origin or "null"', () => {
+		for (const method of ['POST', 'PUT', 'PATCH', 'DELETE'])
+			for (const origin of ['https://evil.test', 'http://127.0.0.1:3001', 'null'])
+				expect(
+					isCrossSiteWrite(request(method, '/api/cart', { origin }), url('/api/cart')),
+					`${method} from ${origin}`
+				).toBe(true);
+	});
+
+	it('takes writes from its own origin', () => {
+		expect(isCrossSiteWrite(request('POST', '/api/cart', { origin: SHOP }), url('/api/cart'))).toBe(
+			false
+		);
+	});
+
+	it('reads Sec-Fetch-Site when a browser sent no Origin', () => {
+		const post = (site: string) =>
+			isCrossSiteWrite(
+				request('POST', '/manage/ship-day/slips', { 'sec-fetch-site': site }),
+				url('/manage/ship-day/slips')
+			);
+		expect(post('cross-site')).toBe(true);
+		expect(post('same-site')).toBe(true);
+		expect(post('same-origin')).toBe(false);
+		// A user typing the address or following a bookmark.
+		expect(post('none')).toBe(false);
+	});
+
+	it('leaves callers that are not browsers alone: no Origin, no Sec-Fetch-Site', () => {
+		expect(isCrossSiteWrite(request('POST', '/api/cart'), url('/api/cart'))).toBe(false);
+	});
+
+	it('never refuses the signed callbacks, whoever claims to send them', () => {
+		for (const path of ['/api/stripe/webhook', '/api/shipments/tracking'])
+			expect(
+				isCrossSiteWrite(request('POST', path, { origin: 'https://evil.test' }), url(path))
+			).toBe(false);
+	});
+});
+
+describe('securityHeaders', () => {
+	const page = () =>
+		new Response('<!doctype html><p>Shop</p>', {
+			headers: {
+				'content-type': 'text/html',
+				'content-security-policy': "script-src 'self' 'nonce-abc'"
+			}
+		});
+
+	it('adds every usual header to a page and keeps the page policy SvelteKit wrote', async () => {
+		const { response } = await run(request('GET', '/catalogue'), page());
+		for (const [name, value] of Object.entries(ALWAYS))
+			expect(response.headers.get(name)).toBe(value);
+		expect(response.headers.get('content-security-policy')).toBe("script-src 'self' 'nonce-abc'");
+		expect(response.headers.get('x-content-type-options')).toBe('nosniff');
+		expect(response.headers.get('x-frame-options')).toBe('DENY');
+		expect(response.headers.get('cross-origin-opener-policy')).toBe('same-origin');
+	});
+
+	it('sends HSTS only when the shop is served over https', async () => {
+		const plain = await run(request('GET', '/'), page());
+		expect(plain.response.headers.has('strict-transport-security')).toBe(false);
+		const secure = await run(request('GET', '/'), page(), 'https://shop.example.com');
+		expect(secure.response.headers.get('strict-transport-security')).toBe(HSTS);
+	});
+
+	it('locks down JSON and other data answers, and frames no HTML that lacks a policy', async () => {
+		const data = await run(request('GET', '/api/health'), Response.json({ ok: true }));
+		expect(data.response.headers.get('content-security-policy')).toBe(DATA_POLICY);
+		const html = await run(
+			request('GET', '/auth/signout'),
+			new Response('<p>Sign out?</p>', { headers: { 'content-type': 'text/html; charset=utf-8' } })
+		);
+		expect(html.response.headers.get('content-security-policy')).toBe(OTHER_HTML_POLICY);
+	});
+
+	it('puts no policy on photos and PDFs, which the browser shows in its own viewer', async () => {
+		for (const type of ['image/webp', 'application/pdf']) {
+			const { response } = await run(
+				request('GET', '/photos/x'),
+				new Response('x', { headers: { 'content-type': type } })
+			);
+			expect(response.headers.has('content-security-policy'), type).toBe(false);
+			expect(response.headers.get('x-content-type-options'), type).toBe('nosniff');
+		}
+	});
+
+	it('keeps a header a route chose for itself', async () => {
+		const { response } = await run(
+			request('GET', '/reset/token'),
+			new Response('', {
+				headers: { 'content-type': 'text/html', 'referrer-policy': 'no-referrer' }
+			})
+		);
+		expect(response.headers.get('referrer-policy')).toBe('no-referrer');
+	});
+
+	it('copies a response whose headers cannot be changed', async () => {
+		// Response.redirect's headers are immutable (WHATWG Fetch standard, "Response.redirect").
+		const { response } = await run(request('GET', '/old'), Response.redirect(`${SHOP}/new`, 303));
+		expect(response.status).toBe(303);
+		expect(response.headers.get('location')).toBe(`${SHOP}/new`);
+		expect(response.headers.get('x-frame-options')).toBe('DENY');
+	});
+
+	it('refuses a cross-site write before the route runs, with the headers on the refusal', async () => {
+		const api = await run(
+			request('POST', '/api/cart/hold', { origin: 'https://evil.test' }),
+			Response.json({})
+		);
+		expect(api.resolve).not.toHaveBeenCalled();
+		expect(api.response.status).toBe(403);
+		expect(((await api.response.json()) as { message: string }).message).toMatch(/another site/);
+		expect(api.response.headers.get('x-content-type-options')).toBe('nosniff');
+
+		const slips = await run(
+			request('POST', '/manage/ship-day/slips', { 'sec-fetch-site': 'cross-site' }),
+			new Response('')
+		);
+		expect(slips.resolve).not.toHaveBeenCalled();
+		expect(slips.response.status).toBe(403);
+		expect(await slips.response.text()).toMatch(/another site/);
+	});
+
+	it('passes same-origin writes to the route', async () => {
+		const { response, resolve } = await run(
+			request('POST', '/api/cart', { origin: SHOP }),
+			Response.json({ lines: [] })
+		);
+		expect(resolve).toHaveBeenCalledOnce();
+		expect(response.status).toBe(200);
+	});
+});
