@@ -13,6 +13,8 @@ import { resolveSession, sessionCookieName } from '$lib/server/auth/sessions';
 import { closeDb, getDb } from '$lib/server/db';
 import { startJobs, type JobRunner } from '$lib/server/jobs';
 import { jobsOptionsFromEnv } from '$lib/server/jobs/env';
+import { requestIdOf, requestLog } from '$lib/server/http/request-log';
+import { describeFailure, logger } from '$lib/server/log';
 
 let jobs: JobRunner | undefined;
 
@@ -25,7 +27,7 @@ export const init: ServerInit = async () => {
 // A stray rejection (a job library losing its connection mid-restart) is logged,
 // not allowed to stop the whole shop.
 process.on('unhandledRejection', (reason) => {
-	console.error('[unhandled rejection]', reason);
+	logger.error({ err: reason }, '[unhandled rejection]');
 });
 
 // adapter-node emits this on SIGINT/SIGTERM once requests have drained; open
@@ -54,9 +56,7 @@ const resolveUser: Handle = async ({ event, resolve }) => {
 			else event.cookies.delete(cookieName, { path: '/' });
 		} catch (failure) {
 			// Database down: this request is signed out, but the cookie stays for when it is back.
-			console.warn(
-				`[auth] session lookup failed: ${failure instanceof Error ? failure.message : failure}`
-			);
+			logger.warn(`[auth] session lookup failed: ${describeFailure(failure)}`);
 		}
 	}
 	return resolve(event);
@@ -97,11 +97,16 @@ const bodyLimit: Handle = async ({ event, resolve }) => {
 	return resolve(event);
 };
 
-export const handle: Handle = sequence(bodyLimit, authJsHandle, resolveUser, gate);
+export const handle: Handle = sequence(requestLog, bodyLimit, authJsHandle, resolveUser, gate);
 
 // Unexpected errors: log the detail on the server, show a plain sentence.
-export const handleError: HandleServerError = ({ error, status }) => {
-	if (status !== 404) console.error(error);
+export const handleError: HandleServerError = ({ error, event, status }) => {
+	// The id by the request too: an error thrown out of the handles lands here outside their context.
+	if (status !== 404)
+		logger.error(
+			{ err: error, status, route: event.route.id, requestId: requestIdOf(event) },
+			'unexpected error'
+		);
 	return {
 		message: status === 404 ? 'Not found.' : 'Something went wrong on our side. Please try again.'
 	};

@@ -35,6 +35,7 @@ import {
 	type SettingsFormField
 } from '$lib/shipping/settings-schema';
 import type { Actions, PageServerLoad } from './$types';
+import { logger } from '$lib/server/log';
 
 const SETTINGS_FORM = { id: 'settings' } as const;
 const DEFAULTS_FORM = { id: 'defaults' } as const;
@@ -47,7 +48,7 @@ async function current(): Promise<{ setting: ShopSetting | null; today: IsoDate;
 		const zone = await resolveShopTimeZone(db, env.SHOP_TIME_ZONE);
 		return { setting, today: todayInZone(zone), zone };
 	} catch (cause) {
-		console.error('[admin] shop settings unavailable', cause);
+		logger.error({ err: cause }, '[admin] shop settings unavailable');
 		error(503, 'The shop settings cannot be read just now. Check that PostgreSQL is running.');
 	}
 }

@@ -7,10 +7,11 @@ import { renderSitemap, siteOrigin } from '$lib/catalogue/crawl';
 import { crawlablePages } from '$lib/server/catalogue/catalogue';
 import { getDb } from '$lib/server/db';
 import type { RequestHandler } from './$types';
+import { logger } from '$lib/server/log';
 
 export const GET: RequestHandler = async ({ url }) => {
 	const pages = await crawlablePages(getDb()).catch((cause: unknown) => {
-		console.error('[sitemap] unavailable', cause);
+		logger.error({ err: cause }, '[sitemap] unavailable');
 		error(503, 'The sitemap cannot be made just now.');
 	});
 	const xml = renderSitemap(siteOrigin(env.ORIGIN, url), [

@@ -8,6 +8,7 @@ import type { Kysely } from 'kysely';
 import type { Database } from '../db/schema';
 import { queueMail } from '../mail';
 import { writeAudit } from '../audit';
+import { logger as log } from '../log';
 import { claimGuestOrders } from './accounts';
 import { SESSION_DAYS, sessionCookieName, sessionCookieOptions } from './sessions';
 
@@ -32,6 +33,12 @@ export function authConfig(settings: AuthSettings): AuthConfig {
 		trustHost: true,
 		// SvelteKit already refuses cross-origin form posts; Auth.js's own token would be a second copy.
 		skipCSRFCheck,
+		// Auth.js's own lines go through the app's logger: JSON like the rest, and scrubbed.
+		logger: {
+			error: (error) => log.error({ err: error }, `[auth] ${error.name}`),
+			warn: (code) => log.warn(`[auth] ${code}`),
+			debug: (message, metadata) => log.debug({ metadata }, `[auth] ${message}`)
+		},
 		useSecureCookies: settings.secure,
 		session: { strategy: 'database', maxAge: SESSION_DAYS * 86_400, updateAge: 86_400 },
 		cookies: {

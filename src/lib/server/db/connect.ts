@@ -3,6 +3,7 @@
 import { Kysely, PostgresDialect } from 'kysely';
 import pg from 'pg';
 import type { Database } from './schema';
+import { logger } from '../log';
 
 const { Pool, types } = pg;
 
@@ -43,7 +44,7 @@ export function createPool(connectionString: string, max = 10): pg.Pool {
 	// An idle client losing its server (a restart) must not crash the process;
 	// the next query opens a fresh connection.
 	pool.on('error', (err) => {
-		console.warn(`[db] idle connection lost: ${err.message}`);
+		logger.warn(`[db] idle connection lost: ${err.message}`);
 	});
 	return pool;
 }

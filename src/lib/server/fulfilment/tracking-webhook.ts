@@ -12,6 +12,7 @@ import type { Database, TrackingStatus } from '$lib/server/db/schema';
 import type { Kysely } from 'kysely';
 import { markDeliveredIn } from './marks';
 import { TRACKING_TOLERANCE_SECONDS, verifyTrackingSignature } from './tracking-signature';
+import { logger } from '../log';
 
 export { TRACKING_SIGNATURE_HEADER } from './tracking-signature';
 
@@ -70,7 +71,7 @@ export async function handleTrackingUpdate(
 	rawBody: string,
 	signature: string | null
 ): Promise<TrackingAnswer> {
-	const log = deps.log ?? ((line: string) => console.info(line));
+	const log = deps.log ?? ((line: string) => logger.info(line));
 	const now = deps.now?.() ?? new Date();
 	const refused = (note: string): TrackingAnswer => ({
 		status: 400,

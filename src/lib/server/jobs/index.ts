@@ -37,6 +37,7 @@ import {
 import type { WaitlistLinks } from '../waitlist/links';
 import { notifyWaitlist } from '../waitlist/worker';
 import { runSlipBatch } from '../fulfilment/slip-batches';
+import { inJobContext, logger } from '../log';
 
 export { getBoss, JOB_SCHEMA, MAIL_SEND_QUEUE, MAIL_SWEEP_QUEUE, SHIP_RECHECK_QUEUE } from './boss';
 
@@ -67,7 +68,7 @@ export interface JobsOptions {
 	pollingIntervalSeconds?: number;
 	/** Seconds between start attempts while PostgreSQL is unreachable (5). */
 	startRetrySeconds?: number;
-	/** Where the one-line reports go; console.warn unless given. */
+	/** Where the one-line reports go; the app's logger (warn) unless given. */
 	log?: (line: string) => void;
 	shipRecheck?: ShipRecheckOptions;
 	/** Where waitlist mail links to, and the secret its leave links are signed with; no worker without it. */
@@ -117,13 +118,21 @@ function throttled(log: (line: string) => void): (line: string) => void {
 	};
 }
 
+/** Works the jobs one after another, each with its id and queue on every line it logs. */
+async function eachInContext<J extends { id: string; name: string }>(
+	jobs: J[],
+	work: (job: J) => Promise<void>
+): Promise<void> {
+	for (const job of jobs) await inJobContext(job, () => work(job));
+}
+
 async function deliverMail(
 	db: Kysely<Database>,
 	mail: MailConfig,
 	jobs: PgBoss.JobWithMetadata<MailSendJob>[],
 	log: (line: string) => void
 ): Promise<void> {
-	for (const job of jobs) {
+	await eachInContext(jobs, async (job) => {
 		const id = job.data.outgoingMailId;
 		try {
 			await sendOutgoingMail(db, id, mail);
@@ -138,7 +147,7 @@ async function deliverMail(
 			);
 			throw error;
 		}
-	}
+	});
 }
 
 /** The queues and their retry rules; createQueue leaves an existing queue alone, so changes go through updateQueue. */
@@ -205,11 +214,13 @@ async function scheduleShipRecheck(
 	recheck: ShipRecheckOptions,
 	log: (line: string) => void
 ): Promise<void> {
-	await boss.work(SHIP_RECHECK_QUEUE, { pollingIntervalSeconds: 60 }, async () => {
-		// The zone is read per run, so a changed setting counts from the next morning's run.
-		const today = todayInZone(await resolveShopTimeZone(db, recheck.timeZoneFallback));
-		log(`[ship-recheck] ${today}: ${await recheck.run(db, today)}`);
-	});
+	await boss.work(SHIP_RECHECK_QUEUE, { pollingIntervalSeconds: 60 }, (jobs) =>
+		eachInContext(jobs, async () => {
+			// The zone is read per run, so a changed setting counts from the next morning's run.
+			const today = todayInZone(await resolveShopTimeZone(db, recheck.timeZoneFallback));
+			log(`[ship-recheck] ${today}: ${await recheck.run(db, today)}`);
+		})
+	);
 	const tz = await resolveShopTimeZone(db, recheck.timeZoneFallback);
 	await boss.schedule(SHIP_RECHECK_QUEUE, recheck.cron ?? SHIP_RECHECK_CRON, {}, { tz });
 }
@@ -227,7 +238,7 @@ export async function installJobSchema(connectionString: string): Promise<void> 
 		schedule: false,
 		max: 2
 	});
-	boss.on('error', (error) => console.warn(`[jobs] ${error.message}`));
+	boss.on('error', (error) => logger.warn(`[jobs] ${error.message}`));
 	await boss.start();
 	try {
 		await createQueues(boss, {});
@@ -269,23 +280,29 @@ async function startOnce(
 			},
 			(jobs) => deliverMail(db, mail, jobs, log)
 		);
-		await boss.work(MAIL_SWEEP_QUEUE, { pollingIntervalSeconds: 30 }, async () => {
-			const requeued = await sweepUnsentMail(db);
-			if (requeued.length)
-				log(`[mail] sweep re-enqueued ${requeued.map((id) => `#${id}`).join(', ')}`);
-		});
+		await boss.work(MAIL_SWEEP_QUEUE, { pollingIntervalSeconds: 30 }, (jobs) =>
+			eachInContext(jobs, async () => {
+				const requeued = await sweepUnsentMail(db);
+				if (requeued.length)
+					log(`[mail] sweep re-enqueued ${requeued.map((id) => `#${id}`).join(', ')}`);
+			})
+		);
 		await boss.schedule(MAIL_SWEEP_QUEUE, SWEEP_CRON);
-		await boss.work(HOLD_EXPIRY_QUEUE, { pollingIntervalSeconds: 30 }, async () => {
-			const swept = await sweepExpiredHolds(db);
-			if (swept.released || swept.cartsRemoved)
-				log(`[holds] released ${swept.released}, removed ${swept.cartsRemoved} stale guest carts`);
-		});
+		await boss.work(HOLD_EXPIRY_QUEUE, { pollingIntervalSeconds: 30 }, (jobs) =>
+			eachInContext(jobs, async () => {
+				const swept = await sweepExpiredHolds(db);
+				if (swept.released || swept.cartsRemoved)
+					log(
+						`[holds] released ${swept.released}, removed ${swept.cartsRemoved} stale guest carts`
+					);
+			})
+		);
 		await boss.schedule(HOLD_EXPIRY_QUEUE, HOLD_EXPIRY_CRON);
 		await boss.work<SlipBatchJob>(
 			SLIP_BATCH_QUEUE,
 			{ batchSize: 1, pollingIntervalSeconds: options.pollingIntervalSeconds ?? 2 },
-			async (jobs) => {
-				for (const job of jobs) {
+			(jobs) =>
+				eachInContext(jobs, async (job) => {
 					const run = await runSlipBatch(db, job.data.slipBatchId, { origin: job.data.origin });
 					log(
 						`[slips] batch #${job.data.slipBatchId}: ` +
@@ -295,8 +312,7 @@ async function startOnce(
 									? `failed (${run.reason})`
 									: `nothing to do (${run.why})`)
 					);
-				}
-			}
+				})
 		);
 		if (options.shipRecheck) await scheduleShipRecheck(boss, db, options.shipRecheck, log);
 		const waitlistLinks = options.waitlist;
@@ -304,8 +320,8 @@ async function startOnce(
 			await boss.work<WaitlistNotifyJob>(
 				WAITLIST_NOTIFY_QUEUE,
 				{ batchSize: 1, pollingIntervalSeconds: options.pollingIntervalSeconds ?? 2 },
-				async (jobs) => {
-					for (const job of jobs) {
+				(jobs) =>
+					eachInContext(jobs, async (job) => {
 						const outcome = await notifyWaitlist(db, job.data, waitlistLinks);
 						log(
 							`[waitlist] listing #${job.data.listingId}: ` +
@@ -313,8 +329,7 @@ async function startOnce(
 									? `nothing sent (${outcome.skipped})`
 									: `${outcome.mailed} mailed`)
 						);
-					}
-				}
+					})
 			);
 		}
 		return { boss, pool, db };
@@ -338,7 +353,7 @@ export async function startJobs(options: JobsOptions): Promise<JobRunner> {
 	if (active) return active;
 	if (!options.connectionString) throw new Error('startJobs needs a connectionString');
 	const mail = mailConfigFrom({ SMTP_URL: options.smtpUrl, MAIL_FROM: options.mailFrom });
-	const log = options.log ?? ((line: string) => console.warn(line));
+	const log = options.log ?? ((line: string) => logger.warn(line));
 	const retryMs = (options.startRetrySeconds ?? 5) * 1000;
 
 	let started: Started | undefined;

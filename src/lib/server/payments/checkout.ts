@@ -19,6 +19,7 @@ import { moveOrder } from '$lib/server/orders/transitions';
 import { zipProblem } from '$lib/server/accounts/zip';
 import { shippingAreaProblem } from '$lib/shipping/area';
 import type { CheckoutForm } from '$lib/checkout/schema';
+import { logger } from '../log';
 
 type Trx = Transaction<Database>;
 
@@ -325,7 +326,7 @@ export async function startCheckout(
 			await dropOpenOrder(trx, prepared.orderId, 'The payment service could not be reached.');
 		});
 		const message = failure instanceof Error ? failure.message : String(failure);
-		console.error(`checkout: no Checkout Session for ${prepared.orderNumber}: ${message}`);
+		logger.error(`checkout: no Checkout Session for ${prepared.orderNumber}: ${message}`);
 		return {
 			ok: false,
 			field: null,
@@ -445,7 +446,7 @@ async function expireSessionsOf(db: Db, stripe: Stripe, orderNumber: string): Pr
 			await stripe.checkout.sessions.expire(row.stripe_checkout_session_id);
 		} catch (failure) {
 			// Already paid or expired: the webhook settles it (a late payment is refunded).
-			console.warn(`checkout: could not expire ${row.stripe_checkout_session_id}`, failure);
+			logger.warn({ err: failure }, `checkout: could not expire ${row.stripe_checkout_session_id}`);
 		}
 	}
 }

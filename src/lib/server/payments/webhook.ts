@@ -13,6 +13,7 @@ import { syncClutchSoldOut } from '$lib/server/listings/listings';
 import { queueMail } from '$lib/server/mail';
 import { lockStockOf } from '$lib/server/cart/cart';
 import { refundTurnedBack } from './refunds';
+import { logger } from '../log';
 
 type Trx = Transaction<Database>;
 
@@ -38,7 +39,7 @@ export async function handleStripeWebhook(
 	rawBody: string,
 	signature: string | null
 ): Promise<WebhookAnswer> {
-	const log = deps.log ?? ((line: string) => console.info(line));
+	const log = deps.log ?? ((line: string) => logger.info(line));
 	let event: Stripe.Event;
 	try {
 		if (!signature) throw new Error('No Stripe-Signature header.');

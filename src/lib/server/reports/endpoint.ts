@@ -12,6 +12,7 @@ import { requireRole } from '$lib/server/auth/guard';
 import { resolveShopTimeZone } from '$lib/server/backoffice/settings';
 import { getDb } from '$lib/server/db';
 import { runReport } from './registry';
+import { logger } from '../log';
 
 function refuse(status: number, message: string, asCsv: boolean): Response {
 	return asCsv
@@ -43,7 +44,7 @@ export async function reportEndpoint(
 	try {
 		timeZone = await resolveShopTimeZone(db, env.SHOP_TIME_ZONE);
 	} catch (cause) {
-		console.error('[reports] ledger unavailable', cause);
+		logger.error({ err: cause }, '[reports] ledger unavailable');
 		error(503, 'The ledger cannot be reached just now. Check that PostgreSQL is running.');
 	}
 	const today = todayInZone(timeZone);

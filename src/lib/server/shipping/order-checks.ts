@@ -22,6 +22,7 @@ import { overrideReasonProblem, overrideShipDateProblem } from '$lib/shipping/ov
 import { describeReason } from '$lib/shipping/reasons';
 import { shipCheck, type Reason, type ShipCheckResult } from '$lib/shipping/ship-check';
 import { buildShipCheckInput, rememberingSource, RULE_VERSION } from './inputs';
+import { logger } from '../log';
 
 type Db = Kysely<Database>;
 
@@ -550,7 +551,7 @@ export async function recheckOpenOrders(
 	today: IsoDate,
 	options: { log?: (line: string) => void } = {}
 ): Promise<RecheckCounts> {
-	const log = options.log ?? ((line: string) => console.warn(line));
+	const log = options.log ?? ((line: string) => logger.warn(line));
 	const orders = await db
 		.selectFrom('customer_order')
 		.select(['id', 'order_number'])

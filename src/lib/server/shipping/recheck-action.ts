@@ -9,6 +9,7 @@ import { clientAddress } from '../auth/requests';
 import { getDb } from '../db';
 import { forecastSource } from '../weather';
 import { checkOrder } from './order-checks';
+import { logger } from '../log';
 
 export async function recheckAction(event: RequestEvent, page: string) {
 	const me = requireRole(event, 'keeper');
@@ -23,7 +24,7 @@ export async function recheckAction(event: RequestEvent, page: string) {
 		});
 		return message(form, outcome.message);
 	} catch (cause) {
-		console.error(`[${page}] re-check failed`, cause);
+		logger.error({ err: cause }, `[${page}] re-check failed`);
 		error(503, 'The ship check could not run just now; nothing was changed.');
 	}
 }

@@ -13,6 +13,7 @@ import {
 } from './config';
 import { fetchDailyForecast, MAX_FORECAST_DAYS, type ServiceOutcome } from './open-meteo';
 import type { ForecastOutcome, ForecastSource } from './source';
+import { logger } from '../log';
 
 const HOUR_MS = 3_600_000;
 
@@ -115,7 +116,7 @@ export function createForecastSource(db: Db, options: ForecastSourceOptions): Fo
 			return entry.success ? { entry: entry.data, fetchedAt: row.fetched_at } : null;
 		} catch (error) {
 			// The cache is a convenience; the service can still answer.
-			console.warn(`[weather] forecast cache unreadable: ${(error as Error).message}`);
+			logger.warn(`[weather] forecast cache unreadable: ${(error as Error).message}`);
 			return null;
 		}
 	}
@@ -147,7 +148,7 @@ export function createForecastSource(db: Db, options: ForecastSourceOptions): Fo
 				.execute();
 		} catch (error) {
 			// The forecast itself is good; the next ask just fetches again.
-			console.warn(`[weather] forecast cache not written: ${(error as Error).message}`);
+			logger.warn(`[weather] forecast cache not written: ${(error as Error).message}`);
 		}
 	}
 

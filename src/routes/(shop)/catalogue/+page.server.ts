@@ -14,6 +14,7 @@ import { formatCents } from '$lib/format/money';
 import { getDb } from '$lib/server/db';
 import { listShopSpecies, loadCataloguePage } from '$lib/server/catalogue/catalogue';
 import type { PageServerLoad } from './$types';
+import { logger } from '$lib/server/log';
 
 /** A filter in force, with the address of the same view without it. */
 export interface ActiveFilter {
@@ -107,7 +108,7 @@ export const load: PageServerLoad = async ({ url }) => {
 			noindex: filters.q !== null
 		};
 	} catch (cause) {
-		console.error('[catalogue] listings unavailable', cause);
+		logger.error({ err: cause }, '[catalogue] listings unavailable');
 		error(503, 'The catalogue cannot be reached just now. Please try again in a few minutes.');
 	}
 };

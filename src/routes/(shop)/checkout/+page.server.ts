@@ -20,6 +20,7 @@ import { shipEstimate } from '$lib/server/shipping/estimate';
 import { forecastSource } from '$lib/server/weather';
 import type { ShipEstimate } from '$lib/shipping/estimate';
 import type { Actions, PageServerLoad } from './$types';
+import { logger } from '$lib/server/log';
 
 export const load: PageServerLoad = async (event) => {
 	const db = getDb();
@@ -70,7 +71,7 @@ export const actions: Actions = {
 		try {
 			stripe = stripeClient();
 		} catch (cause) {
-			console.error('[checkout] Stripe is not configured', cause);
+			logger.error({ err: cause }, '[checkout] Stripe is not configured');
 			return message(
 				form,
 				'Card payments are not available just now, so nothing was held or charged. Please try again later.',

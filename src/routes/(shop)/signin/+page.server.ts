@@ -8,6 +8,7 @@ import { requestSignInLink } from '$lib/server/auth/authjs';
 import { limitProblem, startSession } from '$lib/server/auth/requests';
 import { getDb } from '$lib/server/db';
 import type { Actions, PageServerLoad } from './$types';
+import { describeFailure, logger } from '$lib/server/log';
 
 export const load: PageServerLoad = async ({ url, locals }) => {
 	const next = safeNext(url.searchParams.get('next'));
@@ -58,9 +59,7 @@ export const actions: Actions = {
 			);
 		} catch (failure) {
 			// A refused request (a disabled account) looks the same from outside.
-			console.warn(
-				`[auth] sign-in link not sent: ${failure instanceof Error ? failure.message : failure}`
-			);
+			logger.warn(`[auth] sign-in link not sent: ${describeFailure(failure)}`);
 		}
 		redirect(303, `/signin/check-email?for=link`);
 	}

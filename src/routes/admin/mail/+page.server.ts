@@ -10,6 +10,7 @@ import { MailQueueUnavailableError } from '$lib/server/mail';
 import { listOutgoingMail, resendFailedMail } from '$lib/server/mail/admin';
 import type { Actions, PageServerLoad } from './$types';
 import { resendFormId, resendSchema } from './resend';
+import { logger } from '$lib/server/log';
 
 export const load: PageServerLoad = async (event) => {
 	requireRole(event, 'admin');
@@ -18,7 +19,7 @@ export const load: PageServerLoad = async (event) => {
 		listOutgoingMail(db),
 		resolveShopTimeZone(db, env.SHOP_TIME_ZONE)
 	]).catch((cause: unknown) => {
-		console.error('[admin/mail] outgoing mail unavailable', cause);
+		logger.error({ err: cause }, '[admin/mail] outgoing mail unavailable');
 		error(503, 'Outgoing mail cannot be read just now. Check that PostgreSQL is running.');
 	});
 	const failed = ledger.entries.filter((entry) => entry.status === 'failed');
@@ -63,7 +64,7 @@ export const actions: Actions = {
 			form.message = `Mail #${resent.id} to ${resent.toAddress} is queued again.`;
 			return { form, resent };
 		} catch (cause) {
-			console.error('[admin/mail] send again failed', cause);
+			logger.error({ err: cause }, '[admin/mail] send again failed');
 			const reason =
 				cause instanceof MailQueueUnavailableError
 					? 'The job queue is not running yet, so nothing was changed. Try again in a minute.'

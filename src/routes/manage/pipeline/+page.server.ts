@@ -7,6 +7,7 @@ import { getDb } from '$lib/server/db';
 import { loadStockPipeline } from '$lib/server/stock/pipeline';
 import { pipelineTotals } from '$lib/stock/pipeline';
 import type { PageServerLoad } from './$types';
+import { logger } from '$lib/server/log';
 
 export const load: PageServerLoad = async (event) => {
 	requireRole(event, 'keeper');
@@ -17,7 +18,7 @@ export const load: PageServerLoad = async (event) => {
 		const rows = await loadStockPipeline(db, today);
 		return { today, timeZone, rows, totals: pipelineTotals(rows) };
 	} catch (cause) {
-		console.error('[pipeline] ledger unavailable', cause);
+		logger.error({ err: cause }, '[pipeline] ledger unavailable');
 		error(503, 'The stock ledger cannot be reached just now. Check that PostgreSQL is running.');
 	}
 };

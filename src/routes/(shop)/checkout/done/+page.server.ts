@@ -7,6 +7,7 @@ import { resolveShopTimeZone } from '$lib/server/backoffice/settings';
 import { getDb } from '$lib/server/db';
 import { stripeClient } from '$lib/server/payments/stripe';
 import type { PageServerLoad } from './$types';
+import { logger } from '$lib/server/log';
 
 export const load: PageServerLoad = async (event) => {
 	const sessionId = event.url.searchParams.get('session_id') ?? '';
@@ -50,7 +51,7 @@ export const load: PageServerLoad = async (event) => {
 			const session = await stripeClient().checkout.sessions.retrieve(sessionId);
 			confirming = session.payment_status === 'paid';
 		} catch (cause) {
-			console.error('[checkout/done] session lookup failed', cause);
+			logger.error({ err: cause }, '[checkout/done] session lookup failed');
 			stripeProblem = true;
 		}
 	}

@@ -3,6 +3,7 @@ import { STANDARD_CAUTIONS } from '$lib/care/care-sheet';
 import { getDb } from '$lib/server/db';
 import { loadShopListing, moreOfSpecies } from '$lib/server/catalogue/shop-pages';
 import type { PageServerLoad } from './$types';
+import { logger } from '$lib/server/log';
 
 export const load: PageServerLoad = async ({ params }) => {
 	const db = getDb();
@@ -12,7 +13,7 @@ export const load: PageServerLoad = async ({ params }) => {
 		const more = listing.species ? await moreOfSpecies(db, listing.species.slug, listing.id) : [];
 		return { listing, more };
 	})().catch((cause: unknown) => {
-		console.error('[listing page] unavailable', cause);
+		logger.error({ err: cause }, '[listing page] unavailable');
 		error(503, 'This listing cannot be reached just now. Please try again in a few minutes.');
 	});
 	// A draft was never public: its address does not exist yet.

@@ -23,6 +23,7 @@ import { refundableCents } from '$lib/server/payments/refunds';
 import { listPhotos } from '$lib/server/uploads/photos';
 import { forecastSource } from '$lib/server/weather';
 import type { Actions, PageServerLoad } from './$types';
+import { logger } from '$lib/server/log';
 
 /** One id per form, so each form on the page answers only its own post. */
 const FORM_ID = {
@@ -117,7 +118,7 @@ export const actions: Actions = {
 				)
 			);
 		} catch (cause) {
-			console.error('[admin/claims] refund failed', cause);
+			logger.error({ err: cause }, '[admin/claims] refund failed');
 			return message(
 				form,
 				said(
@@ -154,7 +155,7 @@ export const actions: Actions = {
 				said(true, `Reship ${outcome.orderNumber} made at no charge. ${outcome.check.message}`)
 			);
 		} catch (cause) {
-			console.error('[admin/claims] reship failed', cause);
+			logger.error({ err: cause }, '[admin/claims] reship failed');
 			return message(
 				form,
 				said(

@@ -9,11 +9,12 @@ import {
 	TRACKING_SIGNATURE_HEADER
 } from '$lib/server/fulfilment/tracking-webhook';
 import type { RequestHandler } from './$types';
+import { logger } from '$lib/server/log';
 
 export const POST: RequestHandler = async ({ request }) => {
 	const secret = env.TRACKING_WEBHOOK_SECRET?.trim() ?? '';
 	if (!secret) {
-		console.error('[tracking] TRACKING_WEBHOOK_SECRET is not set; tracking updates are refused');
+		logger.error('[tracking] TRACKING_WEBHOOK_SECRET is not set; tracking updates are refused');
 		return json(
 			{ received: false, note: 'Tracking updates are not set up on this shop.' },
 			{ status: 503, headers: { 'cache-control': 'no-store' } }

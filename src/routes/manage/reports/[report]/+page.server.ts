@@ -6,6 +6,7 @@ import { requireRole } from '$lib/server/auth/guard';
 import { resolveShopTimeZone } from '$lib/server/backoffice/settings';
 import { getDb } from '$lib/server/db';
 import type { PageServerLoad } from './$types';
+import { logger } from '$lib/server/log';
 
 // The role and the shop's today; the report itself comes from its JSON route (+page.ts).
 export const load: PageServerLoad = async (event) => {
@@ -15,7 +16,7 @@ export const load: PageServerLoad = async (event) => {
 	try {
 		timeZone = await resolveShopTimeZone(getDb(), env.SHOP_TIME_ZONE);
 	} catch (cause) {
-		console.error('[reports] ledger unavailable', cause);
+		logger.error({ err: cause }, '[reports] ledger unavailable');
 		error(503, 'The ledger cannot be reached just now. Check that PostgreSQL is running.');
 	}
 	return {

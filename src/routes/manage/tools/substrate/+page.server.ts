@@ -8,6 +8,7 @@ import { listRecipes } from '$lib/server/care/recipes';
 import { getDb } from '$lib/server/db';
 import { batchSchema, inchesText } from './batch-form';
 import type { PageServerLoad } from './$types';
+import { logger } from '$lib/server/log';
 
 const SIZES = ['length', 'width', 'depth'] as const;
 
@@ -16,7 +17,7 @@ export const load: PageServerLoad = async (event) => {
 	const db = getDb();
 	const [recipes, colonies] = await Promise.all([listRecipes(db), listColonyEnclosures(db)]).catch(
 		(cause: unknown) => {
-			console.error('[substrate] ledger unavailable', cause);
+			logger.error({ err: cause }, '[substrate] ledger unavailable');
 			error(503, 'The stock ledger cannot be reached just now. Check that PostgreSQL is running.');
 		}
 	);

@@ -16,6 +16,7 @@ import {
 	joinAsGuest
 } from '$lib/server/waitlist/entries';
 import type { Actions, PageServerLoad } from './$types';
+import { logger } from '$lib/server/log';
 
 /** What the page says after a press: done, already on it, in stock after all, or refused. */
 export type JoinNote = {
@@ -140,7 +141,7 @@ export const actions: Actions = {
 			if (!result.ok) return message(form, stockedNote(species.commonName), { status: 409 });
 		} catch (cause) {
 			if (!(cause instanceof MailQueueUnavailableError)) throw cause;
-			console.error('[waitlist] join refused: the mail queue is not installed', cause);
+			logger.error({ err: cause }, '[waitlist] join refused: the mail queue is not installed');
 			return message(form, queueDownNote, { status: 503 });
 		}
 		// The same words whether the address was new, waiting or already confirmed.
