@@ -390,6 +390,10 @@ export async function cartItemCount(db: Db, cartId: string | null): Promise<numb
 
 // ---- changing lines
 
+/** The refusal of a first add when none is left: sold, or held in other buyers' checkouts. */
+export const SOLD_OUT_TO_ADD =
+	'Sold out: every one is sold or held for another buyer who is checking out.';
+
 /** Why a typed quantity cannot be a line's quantity, or null. */
 export function quantityProblem(quantity: unknown): string | null {
 	if (typeof quantity !== 'number' || !Number.isFinite(quantity)) return 'Enter a number.';
@@ -489,6 +493,9 @@ export async function changeLine(
 			available,
 			hasTiers: listing.tiers > 0
 		});
+		// Someone adding a line for the first time never added it, so "since you added it" is wrong.
+		if (problem?.kind === 'sold_out' && !existing)
+			return { status: 409 as const, field: 'listingId' as const, problem: SOLD_OUT_TO_ADD };
 		if (problem && problem.kind !== 'short')
 			return { status: 409 as const, field: 'listingId' as const, problem: problem.text };
 		if (wanted > MAX_LINE_QUANTITY)
