@@ -1,6 +1,7 @@
 // What /api/health reports: can we reach PostgreSQL, and which migration is it on.
 import { sql } from 'kysely';
 import type { Db } from './db/connect';
+import { unavailableCause } from './db/unavailable';
 
 export type HealthReport =
 	| { status: 'ok'; database: 'reachable'; migration: string | null; checkedAt: string }
@@ -36,7 +37,9 @@ export async function checkHealth(
 }
 
 // Only the driver's error code or a short message leaves the server, never a stack.
-function describe(error: unknown): string {
+function describe(failure: unknown): string {
+	// The app's handle turns a refused connection into a 503; the reason is the driver's.
+	const error = unavailableCause(failure) ?? failure;
 	if (error && typeof error === 'object' && 'code' in error && typeof error.code === 'string') {
 		return error.code;
 	}

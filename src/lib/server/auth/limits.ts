@@ -2,6 +2,7 @@
 // so every app process shares them: per client address and per e-mail.
 import type pg from 'pg';
 import { RateLimiterPostgres, RateLimiterRes } from 'rate-limiter-flexible';
+import { rethrowAsUnavailable } from '../db/unavailable';
 
 export type LimitedAction = 'sign_in' | 'sign_up' | 'reset' | 'sign_in_link';
 export type LimitRule = { points: number; seconds: number };
@@ -56,7 +57,8 @@ export function createAccountLimits(
 					firstRefusal: refusal.consumedPoints === l.points + 1
 				};
 			}
-			throw refusal;
+			// The counts live in PostgreSQL: with it away the request answers 503, not 500.
+			rethrowAsUnavailable(refusal);
 		}
 	}
 

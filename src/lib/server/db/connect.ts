@@ -33,39 +33,24 @@ function getTypeParser(oid: number, format?: 'text' | 'binary') {
 
 export type Db = Kysely<Database>;
 
-/** Opening one connection: past this, PostgreSQL counts as unreachable. */
-export const CONNECT_TIMEOUT_MS = 3_000;
-/**
- * Waiting for a free connection while every one is busy. A drop's checkouts queue on one
- * clutch's row lock, each holding a connection meanwhile; the requests behind them wait
- * their turn rather than fail after the few seconds that suit a dead server.
- */
-export const POOL_WAIT_TIMEOUT_MS = 30_000;
-
-// pg-pool spends its connectionTimeoutMillis on the queue wait and the connect together;
-// the client's own timer bounds the connect alone.
-class ShopClient extends pg.Client {
-	constructor(config?: string | pg.ClientConfig) {
-		super({
-			...(typeof config === 'string' ? { connectionString: config } : config),
-			connectionTimeoutMillis: CONNECT_TIMEOUT_MS
-		});
-	}
-}
-
 export function createPool(connectionString: string, max = 10): pg.Pool {
 	const pool = new Pool({
 		connectionString,
 		max,
 		types: { getTypeParser } as pg.CustomTypesConfig,
-		Client: ShopClient,
-		connectionTimeoutMillis: POOL_WAIT_TIMEOUT_MS,
+		connectionTimeoutMillis: 3_000,
 		idleTimeoutMillis: 30_000
 	});
 	// An idle client losing its server (a restart) must not crash the process;
 	// the next query opens a fresh connection.
 	pool.on('error', (err) => {
 		logger.warn(`[db] idle connection lost: ${err.message}`);
+	});
+	// A checked-out client (inside a transaction, between two queries) has no pool listener,
+	// so its server going away would be an unhandled 'error' that ends the process. With this
+	// one the client only turns unusable: its next query fails and the pool drops it.
+	pool.on('connect', (client) => {
+		client.on('error', () => undefined);
 	});
 	return pool;
 }

@@ -12,6 +12,7 @@ import type { Database, TrackingStatus } from '$lib/server/db/schema';
 import type { Kysely } from 'kysely';
 import { markDeliveredIn } from './marks';
 import { TRACKING_TOLERANCE_SECONDS, verifyTrackingSignature } from './tracking-signature';
+import { isDatabaseUnavailable } from '../db/unavailable';
 import { logger } from '../log';
 
 export { TRACKING_SIGNATURE_HEADER } from './tracking-signature';
@@ -46,7 +47,7 @@ const updateSchema = z.object({
 export type TrackingUpdate = z.infer<typeof updateSchema>;
 
 export type TrackingAnswer = {
-	status: 200 | 400 | 500;
+	status: 200 | 400 | 500 | 503;
 	body: {
 		received: boolean;
 		duplicate?: boolean;
@@ -171,6 +172,10 @@ export async function handleTrackingUpdate(
 		});
 	} catch (failure) {
 		// Nothing committed; the carrier sends it again and it is applied then.
+		if (isDatabaseUnavailable(failure)) {
+			log('[tracking] update waits: the database is unreachable');
+			return { status: 503, body: { received: false } };
+		}
 		log(
 			`[tracking] update failed: ${failure instanceof Error ? failure.message : String(failure)}`
 		);

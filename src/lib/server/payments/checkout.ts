@@ -20,6 +20,7 @@ import { zipProblem } from '$lib/server/accounts/zip';
 import { shippingAreaProblem } from '$lib/shipping/area';
 import type { CheckoutForm } from '$lib/checkout/schema';
 import { logger } from '../log';
+import { isDatabaseUnavailable } from '$lib/server/db/unavailable';
 
 type Trx = Transaction<Database>;
 
@@ -321,6 +322,9 @@ export async function startCheckout(
 			reused: prepared.reused
 		};
 	} catch (failure) {
+		// The database went away, perhaps after Stripe made the session: keep the order, so
+		// the buyer's next try reuses it and gets that same session (same idempotency key).
+		if (isDatabaseUnavailable(failure)) throw failure;
 		// No session, so nobody can pay this order: let its stock go rather than sit held.
 		await db.transaction().execute(async (trx) => {
 			await dropOpenOrder(trx, prepared.orderId, 'The payment service could not be reached.');

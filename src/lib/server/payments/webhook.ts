@@ -13,11 +13,15 @@ import { syncClutchSoldOut } from '$lib/server/listings/listings';
 import { queueMail } from '$lib/server/mail';
 import { lockStockOf } from '$lib/server/cart/cart';
 import { refundTurnedBack } from './refunds';
+import { isDatabaseUnavailable } from '../db/unavailable';
 import { logger } from '../log';
 
 type Trx = Transaction<Database>;
 
-export type WebhookAnswer = { status: 200 | 400 | 500; body: { received: boolean; note?: string } };
+export type WebhookAnswer = {
+	status: 200 | 400 | 500 | 503;
+	body: { received: boolean; note?: string };
+};
 
 /** What a handled event asks for once its transaction has committed (the ship check). */
 export type AfterCommit = { paidOrderId: number | null };
@@ -55,6 +59,10 @@ export async function handleStripeWebhook(
 		after = await deps.db.transaction().execute((trx) => applyEvent(trx, deps, event, log));
 	} catch (failure) {
 		// Nothing committed; Stripe delivers again later and the event is applied then.
+		if (isDatabaseUnavailable(failure)) {
+			log(`stripe webhook ${event.id} (${event.type}) waits: the database is unreachable`);
+			return { status: 503, body: { received: false } };
+		}
 		const why = failure instanceof Error ? failure.message : String(failure);
 		log(`stripe webhook ${event.id} (${event.type}) failed: ${why}`);
 		return { status: 500, body: { received: false } };

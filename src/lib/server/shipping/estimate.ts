@@ -5,6 +5,7 @@
 import type { Kysely } from 'kysely';
 import type pg from 'pg';
 import { RateLimiterPostgres, RateLimiterRes } from 'rate-limiter-flexible';
+import { rethrowAsUnavailable } from '../db/unavailable';
 import type { IsoDate } from '$lib/format/dates';
 import type { LimitRule } from '$lib/server/auth/limits';
 import { lookUpZip } from '$lib/server/accounts/zip';
@@ -49,7 +50,8 @@ export function createEstimateLimiter(
 						firstRefusal: refusal.consumedPoints === rule.points + 1
 					};
 				}
-				throw refusal;
+				// The counts live in PostgreSQL: with it away the request answers 503, not 500.
+				rethrowAsUnavailable(refusal);
 			}
 		}
 	};

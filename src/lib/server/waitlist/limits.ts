@@ -3,6 +3,7 @@
 // app process shares the count, per client address and per e-mail address.
 import type pg from 'pg';
 import { RateLimiterPostgres, RateLimiterRes } from 'rate-limiter-flexible';
+import { rethrowAsUnavailable } from '../db/unavailable';
 import type { LimitConfig, LimitVerdict } from '../auth/limits';
 
 /** A person joins a few lists in a sitting; one address gets at most a few links an hour. */
@@ -47,7 +48,8 @@ export function createWaitlistLimits(
 					firstRefusal: refusal.consumedPoints === l.points + 1
 				};
 			}
-			throw refusal;
+			// The counts live in PostgreSQL: with it away the request answers 503, not 500.
+			rethrowAsUnavailable(refusal);
 		}
 	}
 
