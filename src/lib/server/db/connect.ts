@@ -33,12 +33,33 @@ function getTypeParser(oid: number, format?: 'text' | 'binary') {
 
 export type Db = Kysely<Database>;
 
+/** Opening one connection: past this, PostgreSQL counts as unreachable. */
+export const CONNECT_TIMEOUT_MS = 3_000;
+/**
+ * Waiting for a free connection while every one is busy. A drop's checkouts queue on one
+ * clutch's row lock, each holding a connection meanwhile; the requests behind them wait
+ * their turn rather than fail after the few seconds that suit a dead server.
+ */
+export const POOL_WAIT_TIMEOUT_MS = 30_000;
+
+// pg-pool spends its connectionTimeoutMillis on the queue wait and the connect together;
+// the client's own timer bounds the connect alone.
+class ShopClient extends pg.Client {
+	constructor(config?: string | pg.ClientConfig) {
+		super({
+			...(typeof config === 'string' ? { connectionString: config } : config),
+			connectionTimeoutMillis: CONNECT_TIMEOUT_MS
+		});
+	}
+}
+
 export function createPool(connectionString: string, max = 10): pg.Pool {
 	const pool = new Pool({
 		connectionString,
 		max,
 		types: { getTypeParser } as pg.CustomTypesConfig,
-		connectionTimeoutMillis: 3_000,
+		Client: ShopClient,
+		connectionTimeoutMillis: POOL_WAIT_TIMEOUT_MS,
 		idleTimeoutMillis: 30_000
 	});
 	// An idle client losing its server (a restart) must not crash the process;
