@@ -7,7 +7,7 @@ export const CARD_REDACTED = '[card number]';
 
 /** Keys whose values are dropped wherever they sit in a line, however deep. */
 const SECRET_KEY =
-	/^(authorization|proxy-authorization|cookie|set-cookie|x-api-key|stripe-signature|hatchlot-tracking-signature|cvc|cvv|cvc2|pan|card_?number|number_?on_?card)$|(password|passwd|secret|token|api_?key|private_?key)(_?hash)?$/i;
+	/^(authorization|proxy-authorization|cookie|set-cookie|x-api-key|stripe-signature|hatchlot-tracking-signature|cvc|cvv|cvc2|pan|card_?number|number_?on_?card)$|(password|passwd|secret|token|api_?key|private_?key|access_?key)(_?hash)?$/i;
 
 export function isSecretKey(key: string): boolean {
 	return SECRET_KEY.test(key);
@@ -30,7 +30,8 @@ export function knownSecretsFrom(env: Record<string, string | undefined>): strin
 		'STRIPE_SECRET_KEY',
 		'STRIPE_WEBHOOK_SECRET',
 		'TRACKING_WEBHOOK_SECRET',
-		'PG_PASSWORD'
+		'PG_PASSWORD',
+		'PHOTO_S3_SECRET_ACCESS_KEY'
 	])
 		add(env[name]);
 	for (const name of ['DATABASE_URL', 'SMTP_URL']) {

@@ -1,6 +1,7 @@
 // The one place photo files live: a folder outside static/ (PHOTO_STORAGE_DIR,
-// default .data/photos under the project root), one WebP per stored width, named
-// by the upload's content hash, written once and never changed. Files go when no
+// default .data/photos under the project root), or an S3-compatible bucket when
+// PHOTO_S3_URL is set (s3-storage.ts); one WebP per stored width, named by the
+// upload's content hash, written once and never changed. Files go when no
 // photo row uses their hash any more. Writers and removers of one hash take the
 // same PostgreSQL advisory lock, so an upload and a delete of the same picture
 // cannot cross.
@@ -12,6 +13,7 @@ import type { Readable } from 'node:stream';
 import { sql, type Kysely } from 'kysely';
 import { isPhotoHash, photoFileName } from '$lib/photos/urls';
 import type { Database } from '../db/schema';
+import { s3ConfigFrom, s3PhotoStorage } from './s3-storage';
 
 /**
  * The storage folder. Read from process.env on each call (adapter-node fills it from
@@ -28,8 +30,8 @@ export interface StoredFile {
 	stream: () => Readable;
 }
 
+/** Where photo files live: this folder, or an S3-compatible bucket (s3-storage.ts). */
 export interface PhotoStorage {
-	readonly dir: string;
 	/** Writes the variant unless it is already there; true when this call wrote it. */
 	write(hash: string, width: number, bytes: Uint8Array): Promise<boolean>;
 	exists(hash: string, width: number): Promise<boolean>;
@@ -43,7 +45,25 @@ function isMissing(failure: unknown): boolean {
 	return (failure as NodeJS.ErrnoException | undefined)?.code === 'ENOENT';
 }
 
-export function photoStorage(dir: string = photoStorageDir()): PhotoStorage {
+let bucket: { settings: string; storage: PhotoStorage } | undefined;
+
+/**
+ * The store the environment names: the bucket at PHOTO_S3_URL when that is set (several
+ * app machines share it), else the folder. Given a folder, always that folder.
+ */
+export function photoStorage(dir?: string): PhotoStorage {
+	if (dir === undefined) {
+		const config = s3ConfigFrom(process.env);
+		if (config) {
+			const settings = JSON.stringify(config);
+			if (bucket?.settings !== settings) bucket = { settings, storage: s3PhotoStorage(config) };
+			return bucket.storage;
+		}
+	}
+	return folderPhotoStorage(dir ?? photoStorageDir());
+}
+
+export function folderPhotoStorage(dir: string): PhotoStorage & { readonly dir: string } {
 	const fileFor = (hash: string, width: number) => path.join(dir, photoFileName(hash, width));
 
 	return {
