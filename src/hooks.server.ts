@@ -14,6 +14,7 @@ import { closeDb, getDb } from '$lib/server/db';
 import { startJobs, type JobRunner } from '$lib/server/jobs';
 import { jobsOptionsFromEnv } from '$lib/server/jobs/env';
 import { requestIdOf, requestLog } from '$lib/server/http/request-log';
+import { securityHeaders } from '$lib/server/http/security-headers';
 import { describeFailure, logger } from '$lib/server/log';
 
 let jobs: JobRunner | undefined;
@@ -97,7 +98,16 @@ const bodyLimit: Handle = async ({ event, resolve }) => {
 	return resolve(event);
 };
 
-export const handle: Handle = sequence(requestLog, bodyLimit, authJsHandle, resolveUser, gate);
+// The log's request id first, then the security headers, so every refusal after them
+// (too large, cross-site, sign in first) is logged with its id and carries the headers.
+export const handle: Handle = sequence(
+	requestLog,
+	securityHeaders,
+	bodyLimit,
+	authJsHandle,
+	resolveUser,
+	gate
+);
 
 // Unexpected errors: log the detail on the server, show a plain sentence.
 export const handleError: HandleServerError = ({ error, event, status }) => {
