@@ -67,4 +67,8 @@ describe('claim form', () => {
 			['note', 'Keep the note under 2000 characters.']
 		]);
 	});
+
+	it('drops a NUL from the note, which PostgreSQL would refuse in text', () => {
+		expect(claimFormSchema.parse({ ...base, note: 'cold\0 box\0' }).note).toBe('cold box');
+	});
 });

@@ -18,6 +18,9 @@ export const claimFormSchema = z
 		photos: z.array(z.instanceof(File)).default([]),
 		note: z
 			.string()
+			// Never typed, refused by PostgreSQL in text: dropped here, as the form may be too
+			// large for hooks to read twice (small forms with one are refused whole).
+			.overwrite((text) => text.replaceAll('\0', ''))
 			.trim()
 			.max(CLAIM_NOTE_MAX, `Keep the note under ${CLAIM_NOTE_MAX} characters.`)
 			.default('')

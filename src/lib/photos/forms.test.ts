@@ -17,4 +17,10 @@ describe('photo form fields', () => {
 		expect(long.success).toBe(false);
 		expect(long.error?.issues[0]?.message).toBe('Keep the description to 300 characters.');
 	});
+
+	it('drops a NUL from the description, which PostgreSQL would refuse in text', () => {
+		expect(photoAltSchema.parse({ photo_id: 1, alt_text: '\0Juveniles\0' }).alt_text).toBe(
+			'Juveniles'
+		);
+	});
 });

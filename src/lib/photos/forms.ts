@@ -4,7 +4,14 @@ import { z } from 'zod';
 import { MAX_ALT_LENGTH, refusalReason } from './limits';
 import { PHOTO_TARGET_KINDS } from './urls';
 
-const altText = z.string().trim().max(MAX_ALT_LENGTH, refusalReason('alt_too_long')).default('');
+// A NUL never comes from a keyboard and PostgreSQL takes none in text. Other forms are
+// refused whole for one (hooks); an upload too large to read twice drops it here.
+const altText = z
+	.string()
+	.overwrite((text) => text.replaceAll('\0', ''))
+	.trim()
+	.max(MAX_ALT_LENGTH, refusalReason('alt_too_long'))
+	.default('');
 const returnTo = z.string().max(500).default('');
 const id = z.number().int().positive().max(2_147_483_647);
 

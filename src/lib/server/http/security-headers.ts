@@ -1,9 +1,10 @@
-// The shop's answer to hostile pages elsewhere, in one handle: state-changing requests a
-// browser sends from another site are refused, and every response carries the headers
-// that keep a browser from sniffing, framing, leaking or sharing it. The page policy
-// itself (scripts only with the request's nonce) is SvelteKit's `kit.csp` in
-// svelte.config.js; this adds what a page policy cannot reach.
-import { json, type Handle } from '@sveltejs/kit';
+// The shop's answer to hostile pages and requests, in one handle: what ./hostile-requests
+// refuses never reaches a route, and every response carries the headers that keep a
+// browser from sniffing, framing, leaking or sharing it. The page policy itself (scripts
+// only with the request's nonce) is SvelteKit's `kit.csp` in svelte.config.js; this adds
+// what a page policy cannot reach.
+import type { Handle } from '@sveltejs/kit';
+import { hostileRequestRefusal } from './hostile-requests';
 
 /** Headers for every response, whatever its kind. */
 export const ALWAYS: Readonly<Record<string, string>> = {
@@ -32,37 +33,6 @@ export const OTHER_HTML_POLICY = "frame-ancestors 'none'";
 /** One year, without subdomains: the shop may share its domain with sites it does not run. */
 export const HSTS = 'max-age=31536000';
 
-/** Routes whose callers sign the body instead of sending a browser's cookies. */
-export const SIGNED_CALLBACKS: ReadonlySet<string> = new Set([
-	'/api/stripe/webhook',
-	'/api/shipments/tracking'
-]);
-
-const READS = new Set(['GET', 'HEAD', 'OPTIONS']);
-
-/**
- * Whether a request changes state on behalf of a page from another site. SvelteKit
- * refuses cross-site form posts itself, but only for form content types: a script
- * elsewhere can still POST JSON sent as no type at all, which is a "simple" request
- * and reaches the server without asking first. Browsers name the caller in Origin
- * (and Sec-Fetch-Site); a request with neither did not come from a browser page.
- */
-export function isCrossSiteWrite(request: Request, url: URL): boolean {
-	if (READS.has(request.method) || SIGNED_CALLBACKS.has(url.pathname)) return false;
-	const origin = request.headers.get('origin');
-	// "null" is a sandboxed frame or a file: page, never this shop.
-	if (origin !== null) return origin !== url.origin;
-	const site = request.headers.get('sec-fetch-site');
-	return site !== null && site !== 'same-origin' && site !== 'none';
-}
-
-function refusal(url: URL): Response {
-	const message = 'Requests from another site are not accepted. Use the shop’s own pages.';
-	return url.pathname.startsWith('/api/')
-		? json({ message }, { status: 403 })
-		: new Response(message, { status: 403, headers: { 'content-type': 'text/plain' } });
-}
-
 /** The headers this response still lacks; ones a route set on purpose are kept. */
 export function missingSecurityHeaders(url: URL, headers: Headers): [string, string][] {
 	const wanted: [string, string][] = Object.entries(ALWAYS);
@@ -81,9 +51,7 @@ export function missingSecurityHeaders(url: URL, headers: Headers): [string, str
  * static files adapter-node serves are answered before any hook runs.
  */
 export const securityHeaders: Handle = async ({ event, resolve }) => {
-	let response = isCrossSiteWrite(event.request, event.url)
-		? refusal(event.url)
-		: await resolve(event);
+	let response = (await hostileRequestRefusal(event.request, event.url)) ?? (await resolve(event));
 	const missing = missingSecurityHeaders(event.url, response.headers);
 	if (missing.length === 0) return response;
 	try {

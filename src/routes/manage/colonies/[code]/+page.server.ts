@@ -93,6 +93,15 @@ export const load: PageServerLoad = async (event) => {
 	};
 };
 
+/**
+ * A refused form goes back to the page with what was posted, and the page names the kind
+ * in its labels: a kind that is not one of ours is shown as the default one.
+ */
+function withKnownKind<T extends { data: { kind: string } }>(form: T): T {
+	form.data.kind = kindFrom(form.data.kind);
+	return form;
+}
+
 async function actionContext(event: Parameters<Actions[string]>[0]) {
 	const me = requireRole(event, 'keeper');
 	const db = getDb();
@@ -108,7 +117,7 @@ export const actions: Actions = {
 	log: async (event) => {
 		const { actor, today, colony } = await actionContext(event);
 		const form = await superValidate(event.request, schema, { id: 'log' });
-		if (!form.valid) return fail(400, { logForm: form });
+		if (!form.valid) return fail(400, { logForm: withKnownKind(form) });
 		const outcome = await logCareEntry(getDb(), actor, colony.id, form.data, today);
 		if (!outcome.ok) return setError(form, outcome.field as keyof CareEntryForm, outcome.problem);
 		const tub = outcome.value.tub;
@@ -118,18 +127,18 @@ export const actions: Actions = {
 			schema,
 			{ id: 'log', errors: false }
 		);
-		return message(
-			fresh,
-			tub
-				? `Logged. The removed substrate is resting tub ${tub.code}, held until ${formatShopDate(tub.holdUntil, 'UTC')}.`
-				: 'Logged.'
-		);
+		// Not message(): the blank form fails its own rules (no reading yet), and message()
+		// would answer the saved entry as a refused form, with 400.
+		fresh.message = tub
+			? `Logged. The removed substrate is resting tub ${tub.code}, held until ${formatShopDate(tub.holdUntil, 'UTC')}.`
+			: 'Logged.';
+		return { form: fresh };
 	},
 	edit: async (event) => {
 		const { actor, today } = await actionContext(event);
 		const entryId = Number(event.url.searchParams.get('edit'));
 		const form = await superValidate(event.request, schema, { id: 'edit' });
-		if (!form.valid) return fail(400, { editForm: form });
+		if (!form.valid) return fail(400, { editForm: withKnownKind(form) });
 		if (!Number.isInteger(entryId) || entryId <= 0)
 			return setError(form, 'kind', 'Which entry? Open it from the timeline again.');
 		const outcome = await updateCareEntry(getDb(), actor, entryId, form.data, today);
