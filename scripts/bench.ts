@@ -1,10 +1,13 @@
-// npm run bench: the catalogue's speed against the production build, measured side by side
-// in one run on a seeded database of more than 12,000 live listings. Prints three ratios:
-// catalogue page 1 requests/s ÷ a static file's requests/s from the same server, p95 of
-// page 500 ÷ p95 of page 1, and the gzipped JavaScript the catalogue page loads. Then the
-// owner's reports over the demo plus 100,000 generated orders, each drawn in-process for
-// 12 months and for 5 years beside a baseline query: median and p95, and both ÷ the
-// baseline and ÷ the one-second budget (also written to .data/bench-reports.json).
+// npm run bench: the shop's speed against the production build, measured side by side in
+// one run on a seeded database of more than 12,000 live listings, each pair in rounds taken
+// in turn (A B A B). Prints the raw figures and these ratios: catalogue page 1 requests/s ÷
+// a static file's requests/s from the same server; p95 of page 500 ÷ p95 of page 1; p99 ÷
+// p50 of the catalogue at 8 connections; /api/cart add-line requests/s ÷ /api/health
+// requests/s; the gzipped JavaScript the catalogue and a listing page load; lab LCP and CLS
+// of the home and a listing page in headless Chromium, each ÷ its "good" threshold. Then
+// the owner's reports over the demo plus 100,000 generated orders, each drawn in-process
+// for 12 months and for 5 years beside a baseline query: median and p95, and both ÷ the
+// baseline and ÷ the one-second budget. Every figure also goes to .data/bench.json.
 // A script, never a test: the figures depend on the machine, the ratios much less.
 // Traffic goes only to 127.0.0.1; every request loop stops by itself at a count and a time.
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
@@ -23,8 +26,6 @@ import { createServer } from 'node:net';
 import path from 'node:path';
 import { performance } from 'node:perf_hooks';
 import { fileURLToPath } from 'node:url';
-import { gzipSync } from 'node:zlib';
-import autocannon from 'autocannon';
 import { sql } from 'kysely';
 import { planBenchCatalogue, type BenchListing, type BenchSpecies } from '../seed/bench-catalogue';
 import { addBenchOrders, BENCH_ORDERS, type BenchOrdersResult } from '../seed/bench-orders';
@@ -36,13 +37,9 @@ import { resolveShopTimeZone } from '../src/lib/server/backoffice/settings';
 import { assertMigrated, migratorFor } from '../src/lib/server/db/migrator';
 import { installJobSchema } from '../src/lib/server/jobs';
 import { speciesPrefix } from '../src/lib/server/stock/codes';
-import {
-	nextPageUrl,
-	pageScriptUrls,
-	percentile,
-	staticImportUrls,
-	textTable
-} from './bench/measure';
+import { BenchError } from './bench/load';
+import { textTable } from './bench/measure';
+import { measureShop, printShop, type ShopFigures } from './bench/shop';
 import { REPORT_BUDGET_MS, TIMING_HEADER, timingCells } from './bench/report-timing';
 import { BASELINE_SQL, measureReports, type ReportsPhaseResult } from './bench/reports';
 
@@ -51,7 +48,6 @@ const BENCH_DATABASE = 'hatchlot_bench';
 const HOST = '127.0.0.1';
 const PORT = 3299;
 const BASE = `http://${HOST}:${PORT}`;
-const CATALOGUE_PATH = '/catalogue';
 /** 24 listings a page: page 500 needs at least 11,977 of them in the default view. */
 const PAGE_SIZE = 24;
 const FAR_PAGE = 500;
@@ -64,23 +60,15 @@ const BUILD_LOCK = '/tmp/hatchlot-build.lock';
 const SERVER_DIR = path.join(ROOT, '.data', 'bench-build');
 const SERVER_LOG = path.join(ROOT, '.data', 'bench-server.log');
 const BUILD_LOG = path.join(ROOT, '.data', 'bench-build.log');
-const REPORTS_JSON = path.join(ROOT, '.data', 'bench-reports.json');
+const BENCH_JSON = path.join(ROOT, '.data', 'bench.json');
 
-/** Throughput: the same settings for the page and the static file. */
-const CANNON = { connections: 10, warmupSeconds: 2, seconds: 8, maxRequests: 1_000_000 };
-/** Latency: sequential requests of page 1 and page 500, taken in turn. */
-const LATENCY = { warmup: 20, samples: 200, maxSeconds: 180 };
-const WALK_MAX_SECONDS = 300;
 /** Reports: one warm-up round, then rounds of every report and range, each beside its baseline. */
 const REPORT_ROUNDS = { warmup: 1, rounds: 7, maxSeconds: 300 };
-const REQUEST_TIMEOUT_MS = 15_000;
 
 const startedAt = performance.now();
 const say = (message: string) => console.log(`\x1b[1;32m[bench]\x1b[0m ${message}`);
 const seconds = (since: number) => `${((performance.now() - since) / 1000).toFixed(1)} s`;
 const int = (n: number) => n.toLocaleString('en-US');
-
-class BenchError extends Error {}
 
 // ---------------------------------------------------------------- database
 
@@ -435,117 +423,6 @@ for (const signal of ['SIGINT', 'SIGTERM'] as const) {
 	});
 }
 
-// ---------------------------------------------------------------- measuring
-
-async function get(url: string): Promise<{ status: number; body: Buffer; link: string | null }> {
-	const res = await fetch(url, { signal: AbortSignal.timeout(REQUEST_TIMEOUT_MS) });
-	return {
-		status: res.status,
-		body: Buffer.from(await res.arrayBuffer()),
-		link: res.headers.get('link')
-	};
-}
-
-async function getOk(url: string): Promise<{ body: Buffer; link: string | null }> {
-	const res = await get(url);
-	if (res.status === 404 && new URL(url).pathname === CATALOGUE_PATH)
-		throw new BenchError(
-			`${CATALOGUE_PATH} answers 404: the catalogue route is not in this build.`
-		);
-	if (res.status !== 200) throw new BenchError(`GET ${url} answered ${res.status}`);
-	return res;
-}
-
-interface ScriptFile {
-	url: string;
-	rawBytes: number;
-	gzipBytes: number;
-	namedByPage: boolean;
-}
-
-/** Each script the page names, and what they import statically, fetched once and gzipped. */
-async function pageJavaScript(html: string, link: string | null, pageUrl: string) {
-	const named = pageScriptUrls(html, link, pageUrl);
-	const queue = [...named];
-	const seen = new Set(queue);
-	const files: ScriptFile[] = [];
-	while (queue.length > 0 && files.length < 500) {
-		const url = queue.shift() as string;
-		const { body } = await getOk(url);
-		files.push({
-			url,
-			rawBytes: body.length,
-			gzipBytes: gzipSync(body).length,
-			namedByPage: named.includes(url)
-		});
-		for (const imported of staticImportUrls(body.toString('utf8'), url)) {
-			if (!seen.has(imported) && new URL(imported).pathname.startsWith('/_app/')) {
-				seen.add(imported);
-				queue.push(imported);
-			}
-		}
-	}
-	return files;
-}
-
-async function cannon(url: string, duration: number): Promise<autocannon.Result> {
-	const result = await autocannon({
-		url,
-		connections: CANNON.connections,
-		duration,
-		maxOverallRequests: CANNON.maxRequests,
-		timeout: REQUEST_TIMEOUT_MS / 1000
-	});
-	if (result.errors > 0 || result.non2xx > 0)
-		throw new BenchError(
-			`GET ${url}: ${result.errors} errors and ${result.non2xx} non-2xx answers under load; see ${SERVER_LOG}`
-		);
-	return result;
-}
-
-/** Follows rel="next" from page 1 until page `target`, and returns that page's URL. */
-async function walkTo(firstUrl: string, target: number): Promise<{ url: string; ms: number[] }> {
-	let url = firstUrl;
-	const ms: number[] = [];
-	const deadline = performance.now() + WALK_MAX_SECONDS * 1000;
-	for (let page = 1; page < target; page++) {
-		if (performance.now() > deadline)
-			throw new BenchError(`walking to page ${target} took over ${WALK_MAX_SECONDS} s`);
-		const t0 = performance.now();
-		const { body } = await getOk(url);
-		ms.push(performance.now() - t0);
-		const next = nextPageUrl(body.toString('utf8'), url);
-		if (!next)
-			throw new BenchError(
-				`the catalogue ends at page ${page}; page ${target} needs more listings`
-			);
-		url = next;
-		if (page % 100 === 0) say(`  … page ${page + 1}`);
-	}
-	return { url, ms };
-}
-
-/** Sequential timings of each URL in turn, so both see the same moments of the machine. */
-async function latencies(urls: readonly string[]): Promise<number[][]> {
-	const times = urls.map((): number[] => []);
-	const deadline = performance.now() + LATENCY.maxSeconds * 1000;
-	for (let round = 0; round < LATENCY.warmup + LATENCY.samples; round++) {
-		if (performance.now() > deadline)
-			throw new BenchError(`the latency rounds took over ${LATENCY.maxSeconds} s`);
-		for (const [index, url] of urls.entries()) {
-			const t0 = performance.now();
-			const res = await get(url);
-			const elapsed = performance.now() - t0;
-			if (res.status !== 200) throw new BenchError(`GET ${url} answered ${res.status}`);
-			if (round >= LATENCY.warmup) times[index]?.push(elapsed);
-		}
-	}
-	return times;
-}
-
-const ms = (value: number) => `${value.toFixed(1)} ms`;
-const bytes = (value: number) => `${int(value)} B`;
-
 async function main(): Promise<void> {
 	const { admin, bench } = databaseUrls();
 	const today = dateInTimeZone(new Date(), DEMO_SHOP.timeZone);
@@ -576,86 +453,29 @@ async function main(): Promise<void> {
 		`production server on ${BASE} (log: ${path.relative(ROOT, SERVER_LOG)}), up in ${seconds(since)}`
 	);
 
-	const page1 = `${BASE}${CATALOGUE_PATH}`;
-	const first = await getOk(page1);
-	const html = first.body.toString('utf8');
-	const scripts = await pageJavaScript(html, first.link, page1);
-	if (scripts.length === 0)
-		throw new BenchError(`${CATALOGUE_PATH} loads no JavaScript under /_app/`);
-	// The smallest script the page loads: an immutable file sirv serves from disk.
-	const smallest = scripts.reduce((a, b) => (b.rawBytes < a.rawBytes ? b : a));
-	const staticUrl = smallest.url;
-	const staticPath = new URL(staticUrl).pathname;
-
-	say(
-		`throughput: ${CANNON.connections} connections, ${CANNON.warmupSeconds} s warm-up then ${CANNON.seconds} s each…`
+	const db = createDb(bench, 2);
+	let shop: ShopFigures;
+	try {
+		shop = await measureShop({ base: BASE, db, farPage: FAR_PAGE, serverLog: SERVER_LOG, say });
+	} finally {
+		await db.destroy();
+	}
+	printShop(
+		shop,
+		`Hatchlot shop bench: production build on ${BASE}, database ${BENCH_DATABASE}, ${int(live)} live listings`
 	);
-	await cannon(page1, CANNON.warmupSeconds);
-	await cannon(staticUrl, CANNON.warmupSeconds);
-	const pageLoad = await cannon(page1, CANNON.seconds);
-	const staticLoad = await cannon(staticUrl, CANNON.seconds);
-
-	say(`following rel="next" from page 1 to page ${FAR_PAGE}…`);
-	since = performance.now();
-	const far = await walkTo(page1, FAR_PAGE);
-	say(`reached page ${FAR_PAGE} in ${seconds(since)}`);
-
-	say(`latency: ${LATENCY.samples} sequential requests of page 1 and page ${FAR_PAGE} in turn…`);
-	const [nearTimes = [], farTimes = []] = await latencies([page1, far.url]);
-
-	const pageRps = pageLoad.requests.average;
-	const staticRps = staticLoad.requests.average;
-	const p95Near = percentile(nearTimes, 95);
-	const p95Far = percentile(farTimes, 95);
-	const gzipTotal = scripts.reduce((sum, f) => sum + f.gzipBytes, 0);
-	const rawTotal = scripts.reduce((sum, f) => sum + f.rawBytes, 0);
-	const extra = scripts.filter((f) => !f.namedByPage).length;
-
-	console.log('');
-	console.log(
-		`Hatchlot catalogue bench: production build on ${BASE}, database ${BENCH_DATABASE}, ` +
-			`${int(live)} live listings`
-	);
-	console.log('');
-	console.log(
-		textTable(
-			['measure', 'value', 'detail'],
-			[
-				[
-					`GET ${CATALOGUE_PATH} (page 1)`,
-					`${int(Math.round(pageRps))} req/s`,
-					`${CANNON.connections} conn, ${CANNON.seconds} s, ${int(pageLoad['2xx'])} answers, p50 ${ms(pageLoad.latency.p50)}`
-				],
-				[
-					`GET ${staticPath}`,
-					`${int(Math.round(staticRps))} req/s`,
-					`${bytes(smallest.rawBytes)} file, ${int(staticLoad['2xx'])} answers, p50 ${ms(staticLoad.latency.p50)}`
-				],
-				[
-					'page 1, sequential',
-					`p95 ${ms(p95Near)}`,
-					`p50 ${ms(percentile(nearTimes, 50))}, ${nearTimes.length} requests`
-				],
-				[
-					`page ${FAR_PAGE} (after ${FAR_PAGE - 1} rel=next hops), sequential`,
-					`p95 ${ms(p95Far)}`,
-					`p50 ${ms(percentile(farTimes, 50))}, ${farTimes.length} requests`
-				],
-				[
-					'JavaScript the catalogue loads',
-					`${bytes(gzipTotal)} gzip`,
-					`${scripts.length} files${extra ? ` (${extra} found by their imports)` : ''}, ${bytes(rawTotal)} raw`
-				]
-			]
-		)
-	);
-	console.log('');
-	console.log(`catalogue req/s ÷ static file req/s   ${(pageRps / staticRps).toFixed(3)}`);
-	console.log(`p95 page ${FAR_PAGE} ÷ p95 page 1            ${(p95Far / p95Near).toFixed(2)}`);
-	console.log(
-		`catalogue JavaScript, gzipped         ${bytes(gzipTotal)} (${(gzipTotal / 1024).toFixed(1)} KiB, ${scripts.length} files)`
-	);
-	console.log('');
+	const figures: ShopFigures & { database: string; liveListings: number; reports: unknown } = {
+		...shop,
+		database: BENCH_DATABASE,
+		liveListings: live,
+		reports: null
+	};
+	const writeFigures = () => {
+		mkdirSync(path.dirname(BENCH_JSON), { recursive: true });
+		writeFileSync(BENCH_JSON, JSON.stringify(figures, null, '\t') + '\n');
+	};
+	// Written now as well, so the shop's figures survive a reports phase that fails hard.
+	writeFigures();
 
 	say(
 		`reports: ${REPORT_ROUNDS.warmup} warm-up and ${REPORT_ROUNDS.rounds} timed rounds, each run beside \`${BASELINE_SQL}\`…`
@@ -675,28 +495,19 @@ async function main(): Promise<void> {
 		console.log('');
 		for (const row of result.rows.filter((r) => r.problem))
 			console.log(`${row.report} (${row.range}): ${row.problem}`);
-		mkdirSync(path.dirname(REPORTS_JSON), { recursive: true });
-		writeFileSync(
-			REPORTS_JSON,
-			JSON.stringify(
-				{
-					measuredAt: new Date().toISOString(),
-					database: BENCH_DATABASE,
-					today,
-					timeZone,
-					orders: orders.counts,
-					orderStates: orders.states,
-					baseline: result.baselineSql,
-					rounds: result.rounds,
-					budgetMs: REPORT_BUDGET_MS,
-					reports: result.rows
-				},
-				null,
-				'\t'
-			) + '\n'
-		);
-		say(`report figures written to ${path.relative(ROOT, REPORTS_JSON)}`);
+		figures.reports = {
+			today,
+			timeZone,
+			orders: orders.counts,
+			orderStates: orders.states,
+			baseline: result.baselineSql,
+			rounds: result.rounds,
+			budgetMs: REPORT_BUDGET_MS,
+			reports: result.rows
+		};
+		writeFigures();
 	}
+	say(`figures written to ${path.relative(ROOT, BENCH_JSON)}`);
 	say(`done in ${seconds(startedAt)}; ${BENCH_DATABASE} is kept for a look until the next run`);
 }
 

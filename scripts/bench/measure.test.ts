@@ -127,4 +127,17 @@ describe('textTable', () => {
 			)
 		).toBe(['what   n', '----  --', 'a     10', 'bbb    2'].join('\n'));
 	});
+
+	it('aligns columns as asked', () => {
+		expect(
+			textTable(
+				['what', 'n', 'note'],
+				[
+					['a', '10', 'x'],
+					['bbb', '2', 'longer']
+				],
+				['left', 'right', 'left']
+			)
+		).toBe(['what   n  note', '----  --  ------', 'a     10  x', 'bbb    2  longer'].join('\n'));
+	});
 });

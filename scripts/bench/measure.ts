@@ -115,14 +115,22 @@ export function staticImportUrls(source: string, moduleUrl: string): string[] {
 	return [...found];
 }
 
-/** A plain text table: the first column left-aligned, the rest right-aligned. */
-export function textTable(header: readonly string[], rows: readonly (readonly string[])[]): string {
+/**
+ * A plain text table. Each column is aligned as `align` says; by default the first column
+ * is left-aligned and the rest, numbers mostly, right-aligned.
+ */
+export function textTable(
+	header: readonly string[],
+	rows: readonly (readonly string[])[],
+	align: readonly ('left' | 'right')[] = []
+): string {
 	const all = [header, ...rows];
 	const widths = header.map((_, col) => Math.max(...all.map((row) => (row[col] ?? '').length)));
+	const left = (col: number) => (align[col] ?? (col === 0 ? 'left' : 'right')) === 'left';
 	const line = (row: readonly string[]) =>
 		row
 			.map((cell, col) =>
-				col === 0 ? cell.padEnd(widths[col] ?? 0) : cell.padStart(widths[col] ?? 0)
+				left(col) ? cell.padEnd(widths[col] ?? 0) : cell.padStart(widths[col] ?? 0)
 			)
 			.join('  ')
 			.trimEnd();
