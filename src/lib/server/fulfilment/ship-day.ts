@@ -93,6 +93,9 @@ export async function lookAgainAt(
 	}
 }
 
+/** How many boxes' checks run at once: a day's distinct ZIPs, without flooding the forecast service. */
+const CHECKS_AT_ONCE = 16;
+
 /** Whether each given order's check changed since it was scheduled, as the ship-day page shows it. */
 export async function changedChecks(
 	db: Kysely<Database>,
@@ -125,13 +128,15 @@ export async function changedChecks(
 		.where('o.id', 'in', orderIds)
 		.where('o.state', '=', 'scheduled')
 		.execute();
-	for (const row of rows) {
+	// Boxes side by side, a few at a time: with the forecast service slow, one box after another
+	// would keep the keeper waiting its timeout once per destination, and the page would hang.
+	const checkOne = async (row: (typeof rows)[number]) => {
 		if (!row.live || !row.ship_on || row.ship_on < today) {
 			changes.set(row.id, null);
-			continue;
+			return;
 		}
 		const check = await latestShipCheck(db, row.id);
-		const look = await lookAgainAt(db, forecasts, {
+		const fresh = await lookAgainAt(db, forecasts, {
 			service: row.service,
 			shipZip: row.ship_zip,
 			shipOn: row.ship_on,
@@ -143,16 +148,18 @@ export async function changedChecks(
 		// A forecast that cannot be read counts as changed: the keeper confirms, never the server.
 		changes.set(
 			row.id,
-			look.change ??
-				(look.unavailable
+			fresh.change ??
+				(fresh.unavailable
 					? {
 							kind: 'hold',
-							summary: `The forecast could not be read: ${look.unavailable}`,
+							summary: `The forecast could not be read: ${fresh.unavailable}`,
 							reasons: []
 						}
 					: null)
 		);
-	}
+	};
+	for (let start = 0; start < rows.length; start += CHECKS_AT_ONCE)
+		await Promise.all(rows.slice(start, start + CHECKS_AT_ONCE).map(checkOne));
 	return changes;
 }
 
