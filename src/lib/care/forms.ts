@@ -1,6 +1,7 @@
 // The zod schemas of the colony, care-log and resting-tub forms. Shared by the server
 // (which validates) and the pages (which show the limits as hints).
 import { z } from 'zod';
+import { MAX_INTEGER_COLUMN, NO_SUCH_ROW } from '$lib/forms/row-id';
 import { holdUntilProblem } from './schedule';
 import { ENCLOSURE_LIMITS } from './substrate';
 
@@ -21,7 +22,11 @@ function inches(label: string, max: number) {
 }
 
 export const colonySchema = z.object({
-	speciesId: z.number({ error: 'Choose the species.' }).int().positive('Choose the species.'),
+	speciesId: z
+		.number({ error: 'Choose the species.' })
+		.int()
+		.positive('Choose the species.')
+		.max(MAX_INTEGER_COLUMN, 'Choose the species.'),
 	name: z.string().trim().min(2, 'Give the colony a name of two letters or more.').max(80),
 	lengthIn: inches('inside length', ENCLOSURE_LIMITS.length.max),
 	widthIn: inches('inside width', ENCLOSURE_LIMITS.width.max),
@@ -99,7 +104,9 @@ export function isRefresh(kind: string): boolean {
 	return kind === 'substrate_refresh_half' || kind === 'substrate_refresh_full';
 }
 
-export const deleteEntrySchema = z.object({ entryId: z.number().int().positive() });
+export const deleteEntrySchema = z.object({
+	entryId: z.number().int().positive().max(MAX_INTEGER_COLUMN, NO_SUCH_ROW)
+});
 
 export const stageValues = ['hatchling', 'juvenile', 'sub_adult', 'adult'] as const;
 export const sizeClassValues = ['tiny', 'small', 'medium', 'large'] as const;

@@ -3,6 +3,7 @@
 // e-mail. Shapes only: the published tracking formats are checked on the server by
 // markShipped (src/lib/server/fulfilment/marks.ts), which answers with the field.
 import { z } from 'zod';
+import { MAX_INTEGER_COLUMN } from '$lib/forms/row-id';
 import { MOVE_REASON_MIN_LENGTH } from '$lib/orders/state-machine';
 import type { OrderState } from '$lib/server/db/schema';
 import {
@@ -18,7 +19,11 @@ export const MAX_PACK_ORDERS = 1000;
 /** A keeper's clock may run a little ahead of the server's. */
 export const DELIVERY_CLOCK_SLACK_MS = 5 * 60_000;
 
-const orderId = z.number({ error: 'Pick an order.' }).int().positive();
+const orderId = z
+	.number({ error: 'Pick an order.' })
+	.int()
+	.positive()
+	.max(MAX_INTEGER_COLUMN, 'Pick an order.');
 
 export const packSchema = z.object({
 	orderIds: z

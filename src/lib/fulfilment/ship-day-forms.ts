@@ -1,6 +1,7 @@
 // The ship-day page's own inputs: which day (from the URL), and moving a short line to
 // another clutch. The marking forms are in ./mark-forms.
 import { z } from 'zod';
+import { MAX_INTEGER_COLUMN, NO_SUCH_ROW } from '$lib/forms/row-id';
 import { addDays, type IsoDate } from '$lib/format/dates';
 
 /** How far from today a ship day may be opened: the forecast horizon is far shorter. */
@@ -25,7 +26,11 @@ export function shipDayFromQuery(
 }
 
 export const substituteSchema = z.object({
-	orderLineId: z.number().int().positive(),
-	clutchId: z.number({ error: 'Pick the clutch that takes this line.' }).int().positive()
+	orderLineId: z.number().int().positive().max(MAX_INTEGER_COLUMN, NO_SUCH_ROW),
+	clutchId: z
+		.number({ error: 'Pick the clutch that takes this line.' })
+		.int()
+		.positive()
+		.max(MAX_INTEGER_COLUMN, 'Pick the clutch that takes this line.')
 });
 export type SubstituteForm = z.infer<typeof substituteSchema>;

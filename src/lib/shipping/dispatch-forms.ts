@@ -1,12 +1,15 @@
 // The dispatch board's forms: "check again now", and a keeper's override of the
 // computed decision, which always needs a written reason.
 import { z } from 'zod';
+import { MAX_INTEGER_COLUMN, NO_SUCH_ROW } from '$lib/forms/row-id';
 
-export const recheckSchema = z.object({ orderId: z.number().int().positive() });
+const orderId = z.number().int().positive().max(MAX_INTEGER_COLUMN, NO_SUCH_ROW);
+
+export const recheckSchema = z.object({ orderId });
 
 export const overrideSchema = z
 	.object({
-		orderId: z.number().int().positive(),
+		orderId,
 		decision: z.enum(['ship', 'hold'], { error: 'Ship on a date, or hold.' }),
 		shipDate: z
 			.union([z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'Pick a date.'), z.literal('')])

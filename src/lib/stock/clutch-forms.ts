@@ -1,6 +1,7 @@
 // The fields of every form a keeper fills in about a clutch. The server checks each one
 // again against the clutch as it is now (src/lib/server/clutches/clutches.ts).
 import { z } from 'zod';
+import { MAX_INTEGER_COLUMN, NO_SUCH_ROW } from '$lib/forms/row-id';
 
 const isoDate = z
 	.string()
@@ -19,7 +20,7 @@ function wholeCount(what: string, minimum: number) {
 }
 
 /** The clutch version the page showed; an edit made against an older one is refused. */
-const version = z.number().int().min(0);
+const version = z.number().int().min(0).max(MAX_INTEGER_COLUMN, NO_SUCH_ROW);
 
 const shortText = (max: number) => z.string().trim().max(max, `Keep it under ${max} characters.`);
 
@@ -103,7 +104,11 @@ export function splitRows(form: SplitForm): (SplitRow & { row: number })[] {
 }
 
 export const boughtInSchema = z.object({
-	speciesId: z.number({ error: 'Pick the species.' }).int().min(1, 'Pick the species.'),
+	speciesId: z
+		.number({ error: 'Pick the species.' })
+		.int()
+		.min(1, 'Pick the species.')
+		.max(MAX_INTEGER_COLUMN, 'Pick the species.'),
 	foundOn: isoDate,
 	stage: z.enum(stageValues),
 	sizeClass: z.enum(sizeClassValues),

@@ -4,6 +4,7 @@
 // it. Pure: no clock, no I/O. The server (src/lib/server/listings/listings.ts) checks it
 // all again against the rows as they are inside its transaction.
 import { z } from 'zod';
+import { MAX_INTEGER_COLUMN } from '$lib/forms/row-id';
 import { MAX_LINE_QUANTITY, lineTotalCents, sortedTiers, tiersProblem } from '$lib/money/pricing';
 import type { PriceTier } from '$lib/money/pricing';
 import { formatCents } from '$lib/format/money';
@@ -82,6 +83,7 @@ const listingShape = {
 		.number({ error: 'Pick a species from the list.' })
 		.int('Pick a species from the list.')
 		.positive('Pick a species from the list.')
+		.max(MAX_INTEGER_COLUMN, 'Pick a species from the list.')
 		.optional(),
 	supplyStock: z
 		.number({ error: 'Give the shelf count as a whole number.' })

@@ -1,6 +1,7 @@
 // The waitlist forms. A guest gives an e-mail; a signed-in customer, the confirm and
 // the leave pages only press a button, so their schemas carry no fields.
 import { z } from 'zod';
+import { MAX_INTEGER_COLUMN } from '$lib/forms/row-id';
 
 export const guestJoinSchema = z.object({
 	email: z
@@ -19,7 +20,11 @@ export const linkButtonSchema = z.object({});
 
 /** "Leave" beside one entry on the account page. */
 export const leaveEntrySchema = z.object({
-	entryId: z.number({ error: 'Pick a waitlist to leave.' }).int().positive()
+	entryId: z
+		.number({ error: 'Pick a waitlist to leave.' })
+		.int()
+		.positive()
+		.max(MAX_INTEGER_COLUMN, 'Pick a waitlist to leave.')
 });
 
 export type GuestJoinInput = z.infer<typeof guestJoinSchema>;

@@ -1,8 +1,13 @@
 // The "send again" form of /admin/mail: only the id of the failed row.
 import { z } from 'zod';
+import { MAX_INTEGER_COLUMN } from '$lib/forms/row-id';
 
 export const resendSchema = z.object({
-	id: z.number({ error: 'Pick a mail to send again.' }).int().positive()
+	id: z
+		.number({ error: 'Pick a mail to send again.' })
+		.int()
+		.positive()
+		.max(MAX_INTEGER_COLUMN, 'Pick a mail to send again.')
 });
 
 export type ResendInput = z.infer<typeof resendSchema>;

@@ -2,6 +2,7 @@
 // so the form posts as plain form data and works without JavaScript; the row buttons
 // (add, move, remove) post an `intent` that the server applies without saving.
 import { z } from 'zod';
+import { MAX_INTEGER_COLUMN, NO_SUCH_ROW } from '$lib/forms/row-id';
 import { parsePartAmount, partAmountText, type RecipePartInput } from '$lib/care/substrate';
 
 export const MAX_PART_ROWS = 12;
@@ -136,11 +137,11 @@ export function applyRowIntent(
 	return { ingredients, amounts };
 }
 
-export const makeDefaultSchema = z.object({
-	recipeId: z.number().int().positive()
-});
+const recipeId = z.number().int().positive().max(MAX_INTEGER_COLUMN, NO_SUCH_ROW);
+
+export const makeDefaultSchema = z.object({ recipeId });
 
 export const deleteSchema = z.object({
-	recipeId: z.number().int().positive(),
+	recipeId,
 	confirm: z.boolean().refine((yes) => yes, 'Tick the box to confirm.')
 });
