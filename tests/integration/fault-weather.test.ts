@@ -267,6 +267,12 @@ describe('the forecast service slow, stalled, failing or gone', () => {
 		it('holds a box paid for meanwhile, and the payment stands', async () => {
 			const orderId = await paidOrder(WARM_PLACES[0]);
 			expect((await orderOf(orderId)).state).toBe('weather_hold');
+			const payment = await scratch.db
+				.selectFrom('payment')
+				.select('status')
+				.where('order_id', '=', orderId)
+				.executeTakeFirstOrThrow();
+			expect(payment.status).toBe('succeeded');
 			const check = await latestCheckOf(orderId);
 			expect(check.decision).toBe('hold');
 			expect(rulesOf(check.reasons)).toContain('no_forecast');
