@@ -11,6 +11,7 @@ import { authJsConfig, authSettings } from '$lib/server/auth';
 import { roleAtLeast, requiredRoleForPath } from '$lib/server/auth/roles';
 import { resolveSession, sessionCookieName } from '$lib/server/auth/sessions';
 import { closeDb, getDb } from '$lib/server/db';
+import { isDatabaseUnavailable } from '$lib/server/db/unavailable';
 import { startJobs, type JobRunner } from '$lib/server/jobs';
 import { jobsOptionsFromEnv } from '$lib/server/jobs/env';
 import { requestIdOf, requestLog } from '$lib/server/http/request-log';
@@ -56,7 +57,9 @@ const resolveUser: Handle = async ({ event, resolve }) => {
 			// A token the database does not know (expired, signed out, disabled) is dropped.
 			else event.cookies.delete(cookieName, { path: '/' });
 		} catch (failure) {
-			// Database down: this request is signed out, but the cookie stays for when it is back.
+			// Database down: who is asking cannot be known, so the request is told to come back
+			// (503) rather than treated as signed out (a 401, or a bounce to the sign-in page).
+			if (isDatabaseUnavailable(failure)) throw failure;
 			logger.warn(`[auth] session lookup failed: ${describeFailure(failure)}`);
 		}
 	}
