@@ -460,6 +460,7 @@ describe('fuzz: every endpoint and form action', () => {
 				'application/json; charset=utf-8',
 				'APPLICATION/JSON',
 				'text/json',
+				'text/plain',
 				undefined
 			)
 		});
@@ -499,7 +500,11 @@ describe('fuzz: every endpoint and form action', () => {
 			replaced: fc.array(fc.tuple(fc.nat(40), textValue), { maxLength: 6 }),
 			dropped: fc.array(fc.nat(40), { maxLength: 2 }),
 			extra: fc.array(fc.tuple(keyArb(), textValue), { maxLength: 3 }),
-			encoding: fc.constantFrom('urlencoded', 'multipart'),
+			encoding: fc.oneof(
+				{ weight: 3, arbitrary: fc.constantFrom('urlencoded', 'multipart') },
+				// What a script, not a page, sends: a text/plain form, a multipart one cut wrong.
+				{ weight: 1, arbitrary: fc.constantFrom('plain', 'broken multipart') }
+			),
 			accept: fc.constantFrom('json', 'html'),
 			file: fc.record({
 				name: fc.constantFrom('photo.png', '../../x', 'a'.repeat(300) + '.jpg', '', 'x.svg'),
@@ -527,7 +532,11 @@ describe('fuzz: every endpoint and form action', () => {
 		const files = kept.filter((f) => f.file).map((f) => f.name);
 		let body: BodyInit;
 		const headers: Record<string, string> = {};
-		if (input.encoding === 'multipart' || files.length) {
+		if (input.encoding === 'plain' || input.encoding === 'broken multipart') {
+			body = new URLSearchParams(pairs).toString();
+			headers['content-type'] =
+				input.encoding === 'plain' ? 'text/plain' : 'multipart/form-data; boundary=fuzz';
+		} else if (input.encoding === 'multipart' || files.length) {
 			const form = new FormData();
 			for (const [name, value] of pairs) form.append(name, value);
 			const { name, bytes } = input.file;

@@ -212,6 +212,23 @@ describe('origin check, page policy and headers', () => {
 			}
 		});
 
+		it('from the shop’s own origin but in a shape no page sends are refused in words, not a 500', async () => {
+			for (const [type, body, status] of [
+				['TEXT/PLAIN', 'listingId=1&quantity=1', 415],
+				['text/plain; charset=utf-8', 'listingId=1&quantity=1', 415],
+				['multipart/form-data; boundary=zzz', 'listingId=1&quantity=1', 400]
+			] as const) {
+				const { response, text } = await ask('/cart?/add', {
+					method: 'POST',
+					persona: 'customer',
+					headers: { origin: shop.app.origin, 'content-type': type, accept: 'text/html' },
+					body
+				});
+				expect(response.status, type).toBe(status);
+				expect(text, type).toMatch(/Nothing was saved|arrived broken/);
+			}
+		});
+
 		it('go through from the shop’s own pages', async () => {
 			const { response } = await ask('/cart?/add', {
 				method: 'POST',

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import {
-	bodyHasNul,
+	bodyProblem,
 	hasNulInAddress,
 	hostileRequestRefusal,
 	INSPECTED_BODY_BYTES,
@@ -100,13 +100,15 @@ describe('hasNulInAddress', () => {
 	});
 });
 
-describe('bodyHasNul', () => {
+describe('bodyProblem', () => {
 	const form = 'application/x-www-form-urlencoded';
 
 	it('finds a NUL in a urlencoded value or name, and passes the same form without it', async () => {
-		expect(await bodyHasNul(post('/manage/clutches/NAR-C1?/note', form, 'note=a%00b'))).toBe(true);
-		expect(await bodyHasNul(post('/x', form, 'no%00te=a'))).toBe(true);
-		expect(await bodyHasNul(post('/x', form, 'note=100%25+sure'))).toBe(false);
+		expect(await bodyProblem(post('/manage/clutches/NAR-C1?/note', form, 'note=a%00b'))).toBe(
+			'nul'
+		);
+		expect(await bodyProblem(post('/x', form, 'no%00te=a'))).toBe('nul');
+		expect(await bodyProblem(post('/x', form, 'note=100%25+sure'))).toBeNull();
 	});
 
 	it('finds a NUL in a multipart text field, never in a file', async () => {
@@ -128,38 +130,46 @@ describe('bodyHasNul', () => {
 				bytes
 			);
 		};
-		expect(await bodyHasNul(await sized(withNote))).toBe(true);
-		expect(await bodyHasNul(await sized(withFile))).toBe(false);
+		expect(await bodyProblem(await sized(withNote))).toBe('nul');
+		expect(await bodyProblem(await sized(withFile))).toBeNull();
 	});
 
 	it('finds an escaped NUL in a JSON string or key, whatever type the script claims', async () => {
 		// "\u0000" is NUL written in JSON (RFC 8259, section 7); "\\u0000" is six characters of text.
 		const json = JSON.stringify({ listingId: 'a\u0000' });
-		expect(await bodyHasNul(post('/api/cart', 'application/json', json))).toBe(true);
-		expect(await bodyHasNul(post('/api/cart', null, json))).toBe(true);
-		expect(await bodyHasNul(post('/api/cart', 'text/plain', '{"k\\u0000":1}'))).toBe(true);
-		expect(await bodyHasNul(post('/api/cart', 'application/json', '{"note":"\\\\u0000"}'))).toBe(
-			false
+		expect(await bodyProblem(post('/api/cart', 'application/json', json))).toBe('nul');
+		expect(await bodyProblem(post('/api/cart', null, json))).toBe('nul');
+		expect(await bodyProblem(post('/api/cart', 'text/plain', '{"k\\u0000":1}'))).toBe('nul');
+		expect(
+			await bodyProblem(post('/api/cart', 'application/json', '{"note":"\\\\u0000"}'))
+		).toBeNull();
+		expect(await bodyProblem(post('/api/cart', 'application/json', '{"broken":'))).toBeNull();
+	});
+
+	it('calls a multipart body that does not parse unreadable', async () => {
+		const broken = 'no boundary here';
+		expect(await bodyProblem(post('/cart?/add', 'multipart/form-data; boundary=zzz', broken))).toBe(
+			'unreadable'
 		);
-		expect(await bodyHasNul(post('/api/cart', 'application/json', '{"broken":'))).toBe(false);
+		expect(await bodyProblem(post('/cart?/add', 'multipart/form-data', broken))).toBe('unreadable');
 	});
 
 	it('leaves the body for the route to read', async () => {
 		const sent = post('/x', form, 'note=a');
-		await bodyHasNul(sent);
+		await bodyProblem(sent);
 		expect(await sent.text()).toBe('note=a');
 	});
 
 	it('reads no body it has no length for, nor one larger than any form', async () => {
 		const chunked = request('POST', '/x', { 'content-type': form }, 'note=a%00b');
-		expect(await bodyHasNul(chunked)).toBe(false);
+		expect(await bodyProblem(chunked)).toBeNull();
 		const large = request(
 			'POST',
 			'/x',
 			{ 'content-type': form, 'content-length': String(INSPECTED_BODY_BYTES + 1) },
 			'note=a%00b'
 		);
-		expect(await bodyHasNul(large)).toBe(false);
+		expect(await bodyProblem(large)).toBeNull();
 	});
 });
 
@@ -181,6 +191,23 @@ describe('hostileRequestRefusal', () => {
 		expect(nul?.status).toBe(400);
 		expect(nul?.headers.get('content-type')).toMatch(/^text\/plain/);
 		expect(await nul!.text()).toMatch(/NUL/);
+	});
+
+	it('refuses text/plain, which only a form from elsewhere sends, and a broken multipart body', async () => {
+		for (const type of ['text/plain', 'TEXT/PLAIN; charset=utf-8']) {
+			const path = '/cart?/add';
+			const answer = await hostileRequestRefusal(
+				post(path, type, 'listingId=1', { origin: SHOP }),
+				new URL(path, SHOP)
+			);
+			expect(answer?.status, type).toBe(415);
+		}
+		const broken = await hostileRequestRefusal(
+			post('/cart?/add', 'multipart/form-data; boundary=zzz', 'garbage', { origin: SHOP }),
+			new URL('/cart?/add', SHOP)
+		);
+		expect(broken?.status).toBe(400);
+		expect(await broken!.text()).toMatch(/arrived broken/);
 	});
 
 	it('lets the signed callbacks through untouched: their signature covers the raw body', async () => {

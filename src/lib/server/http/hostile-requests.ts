@@ -1,6 +1,7 @@
 // Requests refused before any route sees them: state-changing ones a browser sends from
-// another site, and ones that carry a NUL character, which no field of ours holds and
-// PostgreSQL refuses in text (so it could only end as a failed query and a 500).
+// another site; ones that carry a NUL character, which no field of ours holds and
+// PostgreSQL refuses in text; and form bodies SvelteKit's actions cannot read (text/plain,
+// broken multipart). Each would otherwise end as a failed query or parse and a 500.
 import { json } from '@sveltejs/kit';
 
 /** Routes whose callers sign the body instead of sending a browser's cookies. */
@@ -47,34 +48,50 @@ function holdsNul(value: unknown): boolean {
 	return false;
 }
 
+/** The media type of a request body, lower-cased, without its parameters. */
+function bodyType(request: Request): string {
+	return (request.headers.get('content-type') ?? '').split(';', 1)[0]!.trim().toLowerCase();
+}
+
 /**
- * Whether a form or JSON body carries a NUL in a name or a text value (file contents are
- * bytes and may). A body that does not parse is left for the route to refuse.
+ * What is wrong with a form or JSON body: a NUL in a name or a text value (file contents
+ * are bytes and may hold one), or a multipart body that does not parse (SvelteKit's
+ * actions would fail reading it). null when nothing is; a JSON body that does not parse
+ * is left for the route to refuse in its own words.
  */
-export async function bodyHasNul(request: Request): Promise<boolean> {
-	if (READS.has(request.method) || request.body === null) return false;
+export async function bodyProblem(request: Request): Promise<'nul' | 'unreadable' | null> {
+	if (READS.has(request.method) || request.body === null) return null;
 	const length = Number(request.headers.get('content-length') ?? NaN);
-	if (!(length > 0 && length <= INSPECTED_BODY_BYTES)) return false;
-	const type = (request.headers.get('content-type') ?? '').split(';', 1)[0]!.trim().toLowerCase();
-	try {
-		if (type === 'multipart/form-data') {
-			const form = await request.clone().formData();
-			return [...form.entries()].some(
-				([name, value]) =>
-					name.includes('\0') || (typeof value === 'string' && value.includes('\0'))
-			);
+	if (!(length > 0 && length <= INSPECTED_BODY_BYTES)) return null;
+	const type = bodyType(request);
+	if (type === 'multipart/form-data') {
+		let form: FormData;
+		try {
+			form = await request.clone().formData();
+		} catch {
+			return 'unreadable';
 		}
-		const text = await request.clone().text();
-		if (type === 'application/x-www-form-urlencoded')
-			return [...new URLSearchParams(text)].some(([name, value]) => holdsNul(name + value));
-		// JSON arrives with its own type, or as text or no type at all from a script.
-		return text.includes('\0') || (text.includes('\\u0000') && holdsNul(JSON.parse(text)));
+		const nul = [...form.entries()].some(
+			([name, value]) => name.includes('\0') || (typeof value === 'string' && value.includes('\0'))
+		);
+		return nul ? 'nul' : null;
+	}
+	const text = await request.clone().text();
+	if (type === 'application/x-www-form-urlencoded')
+		return [...new URLSearchParams(text)].some(([name, value]) => holdsNul(name + value))
+			? 'nul'
+			: null;
+	if (text.includes('\0')) return 'nul';
+	if (!text.includes('\\u0000')) return null;
+	try {
+		// JSON arrives with its own type, or with none at all from a script.
+		return holdsNul(JSON.parse(text)) ? 'nul' : null;
 	} catch {
-		return false;
+		return null;
 	}
 }
 
-function refusal(url: URL, status: 400 | 403, message: string): Response {
+function refusal(url: URL, status: 400 | 403 | 415, message: string): Response {
 	return url.pathname.startsWith('/api/')
 		? json({ message }, { status })
 		: new Response(message, { status, headers: { 'content-type': 'text/plain; charset=utf-8' } });
@@ -90,7 +107,14 @@ export async function hostileRequestRefusal(request: Request, url: URL): Promise
 		);
 	if (SIGNED_CALLBACKS.has(url.pathname)) return null;
 	if (hasNulInAddress(url)) return refusal(url, 400, 'That address is not one of ours.');
-	if (await bodyHasNul(request))
+	// The type a <form> can send across sites unasked; none of the shop's pages or scripts
+	// send it, and SvelteKit's actions cannot read it (they would fail with a 500).
+	if (!READS.has(request.method) && bodyType(request) === 'text/plain')
+		return refusal(url, 415, 'Send the form as the shop’s own pages do. Nothing was saved.');
+	const problem = await bodyProblem(request);
+	if (problem === 'nul')
 		return refusal(url, 400, 'The form held a character no field takes (NUL). Nothing was saved.');
+	if (problem === 'unreadable')
+		return refusal(url, 400, 'The form arrived broken; reload the page and try again.');
 	return null;
 }
