@@ -157,7 +157,7 @@ export function changedTables(before: Map<string, string>, after: Map<string, st
 const LEAKS: [string, RegExp][] = [
 	['stack frame', /\n\s*at (?:async )?[\w$.<>[\] ]+ \((?:file:|node:|\/)/],
 	['source position', /[\w-]+\.(?:js|ts|svelte|mjs):\d+:\d+/],
-	['node internals', /node:internal|node_modules\//],
+	['node internals', /node:internal|node_modules\/[^\s"')]+\.[cm]?[jt]s\b/],
 	[
 		'PostgreSQL error',
 		/syntax error at or near|violates (?:foreign key|check|unique|not-null|exclusion) constraint|duplicate key value|invalid input syntax for type|out of range for type|value too long for type|invalid byte sequence for encoding|current transaction is aborted|relation "\w+" does not exist|column "\w+" (?:of relation "\w+" )?does not exist/i

@@ -152,6 +152,17 @@ describe('bodyProblem', () => {
 			'unreadable'
 		);
 		expect(await bodyProblem(post('/cart?/add', 'multipart/form-data', broken))).toBe('unreadable');
+		expect(await bodyProblem(post('/cart?/add', 'multipart/form-data; boundary=zzz', ''))).toBe(
+			'unreadable'
+		);
+		expect(
+			await bodyProblem(
+				request('POST', '/cart?/add', {
+					'content-type': 'multipart/form-data; boundary=zzz',
+					'content-length': '0'
+				})
+			)
+		).toBe('unreadable');
 	});
 
 	it('leaves the body for the route to read', async () => {

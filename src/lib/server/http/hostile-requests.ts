@@ -60,10 +60,17 @@ function bodyType(request: Request): string {
  * is left for the route to refuse in its own words.
  */
 export async function bodyProblem(request: Request): Promise<'nul' | 'unreadable' | null> {
-	if (READS.has(request.method) || request.body === null) return null;
+	if (READS.has(request.method)) return null;
+	const type = bodyType(request);
+	// An empty multipart body has no boundary line to read: nothing a browser sends.
+	if (
+		type === 'multipart/form-data' &&
+		(request.body === null || request.headers.get('content-length') === '0')
+	)
+		return 'unreadable';
+	if (request.body === null) return null;
 	const length = Number(request.headers.get('content-length') ?? NaN);
 	if (!(length > 0 && length <= INSPECTED_BODY_BYTES)) return null;
-	const type = bodyType(request);
 	if (type === 'multipart/form-data') {
 		let form: FormData;
 		try {
