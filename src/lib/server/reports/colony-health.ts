@@ -7,7 +7,14 @@ import type { CareEntryKind } from '$lib/server/db/schema';
 import type { IsoDate } from '$lib/format/dates';
 import { formatCell } from '$lib/reports/cells';
 import type { ReportFilter, ReportRow, ReportSection } from '$lib/reports/report';
-import { chosen, fraction, monthSeries, type ReportContext, type ReportRunner } from './context';
+import {
+	chosen,
+	fraction,
+	monthSeries,
+	speciesFilter,
+	type ReportContext,
+	type ReportRunner
+} from './context';
 
 const REFRESH_KINDS: CareEntryKind[] = ['substrate_refresh_half', 'substrate_refresh_full'];
 
@@ -150,20 +157,9 @@ export const colonyHealthReport: ReportRunner = async (context) => {
 	const { db } = context;
 	const asOf = colonyHealthAsOf(context.to, context.today);
 
-	const speciesRows = await db
-		.selectFrom('species as s')
-		.select(['s.id', 's.slug', 's.common_name'])
-		.where((eb) =>
-			eb.exists(eb.selectFrom('colony as c').select('c.id').whereRef('c.species_id', '=', 's.id'))
-		)
-		.orderBy('s.common_name')
-		.execute();
-	const speciesSlug = chosen(
-		context.params,
-		'species',
-		speciesRows.map((s) => s.slug)
-	);
-	const species = speciesRows.find((s) => s.slug === speciesSlug) ?? null;
+	const { species, filter: speciesChoice } = await speciesFilter(context, {
+		onlyWithColonies: true
+	});
 	// The colony list follows the species chosen, so a colony of another species reads as "all".
 	const colonyRows = await activeColonies(db, context, asOf, {
 		speciesId: species?.id ?? null,
@@ -181,15 +177,7 @@ export const colonyHealthReport: ReportRunner = async (context) => {
 	const scope: ColonyScope = { speciesId: species?.id ?? null, colonyId: colony?.id ?? null };
 
 	const filters: ReportFilter[] = [
-		{
-			key: 'species',
-			label: 'Species',
-			value: speciesSlug,
-			options: [
-				{ value: '', label: 'All species' },
-				...speciesRows.map((s) => ({ value: s.slug, label: s.common_name }))
-			]
-		},
+		speciesChoice,
 		{
 			key: 'colony',
 			label: 'Colony',

@@ -70,3 +70,47 @@ export function chosen(params: URLSearchParams, key: string, values: readonly st
 export function rangeWords(context: Pick<ReportContext, 'from' | 'to'>): string {
 	return `${formatCell('date', context.from)} to ${formatCell('date', context.to)}`;
 }
+
+/** A species a report can be narrowed to. */
+export interface SpeciesChoice {
+	id: number;
+	slug: string;
+	common_name: string;
+}
+
+/**
+ * The species filter every report shares: the shop's species by common name, the one
+ * chosen in ?species= (or none, for all or an unknown slug), and the filter to show.
+ */
+export async function speciesFilter(
+	context: Pick<ReportContext, 'db' | 'params'>,
+	options: { allLabel?: string; onlyWithColonies?: boolean } = {}
+): Promise<{ species: SpeciesChoice | null; filter: ReportFilter }> {
+	const rows: SpeciesChoice[] = await context.db
+		.selectFrom('species as s')
+		.select(['s.id', 's.slug', 's.common_name'])
+		.$if(options.onlyWithColonies === true, (q) =>
+			q.where((eb) =>
+				eb.exists(eb.selectFrom('colony as c').select('c.id').whereRef('c.species_id', '=', 's.id'))
+			)
+		)
+		.orderBy('s.common_name')
+		.execute();
+	const value = chosen(
+		context.params,
+		'species',
+		rows.map((s) => s.slug)
+	);
+	return {
+		species: rows.find((s) => s.slug === value) ?? null,
+		filter: {
+			key: 'species',
+			label: 'Species',
+			value,
+			options: [
+				{ value: '', label: options.allLabel ?? 'All species' },
+				...rows.map((s) => ({ value: s.slug, label: s.common_name }))
+			]
+		}
+	};
+}

@@ -7,20 +7,14 @@ import { sql } from 'kysely';
 import type { Db } from '$lib/server/db';
 import type { ReportColumn, ReportFilter, ReportRow, ReportSection } from '$lib/reports/report';
 import {
-	chosen,
 	monthSeries,
 	rangeEnd,
 	rangeStart,
 	rangeWords,
+	speciesFilter,
 	type ReportContext,
 	type ReportRunner
 } from './context';
-
-interface SpeciesOption {
-	id: number;
-	slug: string;
-	common_name: string;
-}
 
 /** The row key of a species' column in the month × species table. */
 const speciesKey = (slug: string) => `species:${slug}`;
@@ -79,29 +73,11 @@ function refundSharesInRange(db: Db, context: ReportContext) {
 }
 
 export const salesReport: ReportRunner = async (context) => {
-	const { db, timeZone } = context;
-	const speciesRows: SpeciesOption[] = await db
-		.selectFrom('species')
-		.select(['id', 'slug', 'common_name'])
-		.orderBy('common_name')
-		.execute();
-	const speciesSlug = chosen(
-		context.params,
-		'species',
-		speciesRows.map((s) => s.slug)
-	);
-	const onlySpecies = speciesRows.find((s) => s.slug === speciesSlug) ?? null;
-	const filters: ReportFilter[] = [
-		{
-			key: 'species',
-			label: 'Species',
-			value: speciesSlug,
-			options: [
-				{ value: '', label: 'All species, supplies and shipping' },
-				...speciesRows.map((s) => ({ value: s.slug, label: s.common_name }))
-			]
-		}
-	];
+	const { timeZone } = context;
+	const { species: onlySpecies, filter: speciesChoice } = await speciesFilter(context, {
+		allLabel: 'All species, supplies and shipping'
+	});
+	const filters: ReportFilter[] = [speciesChoice];
 
 	const [byMonth, bySpecies, monthBySpecies] = await Promise.all([
 		salesByMonth(context, onlySpecies?.id ?? null),

@@ -13,7 +13,13 @@ import { sql, type QueryCreator } from 'kysely';
 import { formatCell } from '$lib/reports/cells';
 import type { ReportColumn, ReportFilter, ReportRow, ReportSection } from '$lib/reports/report';
 import type { Database } from '$lib/server/db/schema';
-import { chosen, fraction, type ReportContext, type ReportRunner } from './context';
+import {
+	fraction,
+	speciesFilter,
+	type ReportContext,
+	type ReportRunner,
+	type SpeciesChoice
+} from './context';
 
 /** The curve runs at least this many weeks, longer when a species grows out slower. */
 const CURVE_WEEKS_AT_LEAST = 16;
@@ -23,12 +29,6 @@ const CURVE_WEEKS_AT_LEAST = 16;
 // indexes on clutch_event (migrations/…_report_indexes.ts) that serve these two lists.
 const LOSS_EVENT = sql<boolean>`e.kind in ('loss', 'count') and e.count_delta < 0`;
 const MOVED_IN_EVENT = sql<boolean>`moved.kind in ('split_in', 'merge_in')`;
-
-interface SpeciesChoice {
-	id: number;
-	slug: string;
-	common_name: string;
-}
 
 /** The row key of a species' column in the curve's table. */
 const speciesKey = (slug: string) => `species:${slug}`;
@@ -59,29 +59,8 @@ function cohort(qc: QueryCreator<Database>, context: ReportContext, speciesId: n
 }
 
 export const survivalReport: ReportRunner = async (context) => {
-	const { db } = context;
-	const speciesRows: SpeciesChoice[] = await db
-		.selectFrom('species')
-		.select(['id', 'slug', 'common_name'])
-		.orderBy('common_name')
-		.execute();
-	const speciesSlug = chosen(
-		context.params,
-		'species',
-		speciesRows.map((s) => s.slug)
-	);
-	const onlySpecies = speciesRows.find((s) => s.slug === speciesSlug) ?? null;
-	const filters: ReportFilter[] = [
-		{
-			key: 'species',
-			label: 'Species',
-			value: speciesSlug,
-			options: [
-				{ value: '', label: 'All species' },
-				...speciesRows.map((s) => ({ value: s.slug, label: s.common_name }))
-			]
-		}
-	];
+	const { species: onlySpecies, filter: speciesChoice } = await speciesFilter(context);
+	const filters: ReportFilter[] = [speciesChoice];
 
 	const speciesId = onlySpecies?.id ?? null;
 	const [curve, saleReady, clutches] = await Promise.all([

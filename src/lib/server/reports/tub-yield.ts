@@ -7,7 +7,7 @@ import { formatCell } from '$lib/reports/cells';
 import type { ReportColumn, ReportFilter, ReportRow, ReportSection } from '$lib/reports/report';
 import { seasonsBetween } from '$lib/reports/seasons';
 import type { Database } from '$lib/server/db/schema';
-import { chosen, fraction, type ReportContext, type ReportRunner } from './context';
+import { chosen, fraction, speciesFilter, type ReportContext, type ReportRunner } from './context';
 
 interface TubScope {
 	speciesId: number | null;
@@ -77,17 +77,7 @@ const TALLY_COLUMNS: ReportColumn[] = [
 
 export const tubYieldReport: ReportRunner = async (context) => {
 	const { db } = context;
-	const speciesRows = await db
-		.selectFrom('species')
-		.select(['id', 'slug', 'common_name'])
-		.orderBy('common_name')
-		.execute();
-	const speciesSlug = chosen(
-		context.params,
-		'species',
-		speciesRows.map((s) => s.slug)
-	);
-	const onlySpecies = speciesRows.find((s) => s.slug === speciesSlug) ?? null;
+	const { species: onlySpecies, filter: speciesChoice } = await speciesFilter(context);
 	const speciesId = onlySpecies?.id ?? null;
 	// With a species chosen, only its colonies are offered; another species' colony means all.
 	const colonyRows = await db
@@ -103,15 +93,7 @@ export const tubYieldReport: ReportRunner = async (context) => {
 	);
 	const onlyColony = colonyRows.find((c) => c.code === colonyCode) ?? null;
 	const filters: ReportFilter[] = [
-		{
-			key: 'species',
-			label: 'Species',
-			value: speciesSlug,
-			options: [
-				{ value: '', label: 'All species' },
-				...speciesRows.map((s) => ({ value: s.slug, label: s.common_name }))
-			]
-		},
+		speciesChoice,
 		{
 			key: 'colony',
 			label: 'Colony',
