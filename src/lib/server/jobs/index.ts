@@ -160,8 +160,9 @@ async function createQueues(
 		retryLimit: options.mailRetryLimit ?? 5,
 		retryDelay: options.mailRetryDelaySeconds ?? 2,
 		retryBackoff: options.mailRetryBackoff ?? true,
-		// Longer than nodemailer's timeouts together, so a hung relay fails the attempt first.
-		expireInSeconds: 120
+		// Longer than nodemailer's timeouts together (10 + 10 + 30 s, mail/config.ts), so a
+		// hung relay fails the attempt first.
+		expireInSeconds: 60
 	};
 	await boss.createQueue(MAIL_SEND_QUEUE, mailQueue);
 	await boss.updateQueue(MAIL_SEND_QUEUE, mailQueue);
@@ -265,7 +266,11 @@ async function startOnce(
 	const db = createDb(options.connectionString, 2);
 	const boss = new PgBoss({
 		db: { executeSql: (text, values) => pool.query(text, values) },
-		schema: JOB_SCHEMA
+		schema: JOB_SCHEMA,
+		// A job whose end could not be written (the database went away mid-send) stays active
+		// until it expires and the next maintenance pass finds it; every 30 s rather than
+		// pg-boss's 120 s, so such a receipt goes out within about a minute and a half.
+		maintenanceIntervalSeconds: 30
 	});
 	boss.on('error', (error) => noisy(`[jobs] ${error.message}`));
 	try {
