@@ -14,6 +14,7 @@ import { closeDb, getDb } from '$lib/server/db';
 import { isDatabaseUnavailable } from '$lib/server/db/unavailable';
 import { startJobs, type JobRunner } from '$lib/server/jobs';
 import { jobsOptionsFromEnv } from '$lib/server/jobs/env';
+import { fontPreload } from '$lib/server/http/font-preload';
 import { requestIdOf, requestLog } from '$lib/server/http/request-log';
 import { securityHeaders } from '$lib/server/http/security-headers';
 import { describeFailure, logger } from '$lib/server/log';
@@ -108,6 +109,7 @@ const bodyLimit: Handle = async ({ event, resolve }) => {
 export const handle: Handle = sequence(
 	requestLog,
 	securityHeaders,
+	fontPreload,
 	bodyLimit,
 	authJsHandle,
 	resolveUser,
