@@ -42,6 +42,13 @@ export default ts.config(
 		}
 	},
 	{
+		// The server writes through the pino logger ($lib/server/log), which scrubs secrets and
+		// card numbers and tags each line with its request or job id; console bypasses both.
+		files: ['src/lib/server/**/*.ts', 'src/hooks.server.ts', 'src/routes/**/+*.server.ts'],
+		ignores: ['**/*.test.ts'],
+		rules: { 'no-console': 'error' }
+	},
+	{
 		files: ['**/*.js'],
 		...ts.configs.disableTypeChecked
 	}

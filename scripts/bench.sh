@@ -1,5 +1,6 @@
 #!/usr/bin/env bash
-# npm run bench: the catalogue benchmark (scripts/bench.ts) against the production build,
+# npm run bench: the shop's figures (scripts/bench.ts: catalogue, cart, tail latency, page
+# weight, lab web vitals, report timings) against the production build,
 # on its own database hatchlot_bench in the project's cluster. Prints ratios; asserts nothing.
 source "$(dirname "${BASH_SOURCE[0]}")/lib.sh"
 load_env

@@ -1,6 +1,13 @@
 import type { RequestEvent, ResolveOptions } from '@sveltejs/kit';
 import { describe, expect, it, vi } from 'vitest';
-import { ALWAYS, DATA_POLICY, HSTS, OTHER_HTML_POLICY, securityHeaders } from './security-headers';
+import {
+	ALWAYS,
+	DATA_POLICY,
+	HSTS,
+	OTHER_HTML_POLICY,
+	RETRY_AFTER_SECONDS,
+	securityHeaders
+} from './security-headers';
 
 const SHOP = 'http://127.0.0.1:3000';
 
@@ -65,6 +72,17 @@ describe('securityHeaders', () => {
 			expect(response.headers.has('content-security-policy'), type).toBe(false);
 			expect(response.headers.get('x-content-type-options'), type).toBe('nosniff');
 		}
+	});
+
+	it('asks a caller of a 503 to come back in a few seconds (RFC 9110 §10.2.3 Retry-After)', async () => {
+		const unavailable = new Response('{"message":"down"}', {
+			status: 503,
+			headers: { 'content-type': 'application/json' }
+		});
+		const { response } = await run(request('GET', '/api/health'), unavailable);
+		expect(response.headers.get('retry-after')).toBe(String(RETRY_AFTER_SECONDS));
+		const { response: fine } = await run(request('GET', '/'), page());
+		expect(fine.headers.has('retry-after')).toBe(false);
 	});
 
 	it('keeps a header a route chose for itself', async () => {

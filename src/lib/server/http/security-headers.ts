@@ -33,10 +33,21 @@ export const OTHER_HTML_POLICY = "frame-ancestors 'none'";
 /** One year, without subdomains: the shop may share its domain with sites it does not run. */
 export const HSTS = 'max-age=31536000';
 
+/**
+ * Seconds a caller is asked to wait after a 503 (the database restarting): RFC 9110
+ * §10.2.3's Retry-After, so scripts and load balancers back off rather than hammer.
+ */
+export const RETRY_AFTER_SECONDS = 5;
+
 /** The headers this response still lacks; ones a route set on purpose are kept. */
-export function missingSecurityHeaders(url: URL, headers: Headers): [string, string][] {
+export function missingSecurityHeaders(
+	url: URL,
+	headers: Headers,
+	status = 200
+): [string, string][] {
 	const wanted: [string, string][] = Object.entries(ALWAYS);
 	if (url.protocol === 'https:') wanted.push(['strict-transport-security', HSTS]);
+	if (status === 503) wanted.push(['retry-after', String(RETRY_AFTER_SECONDS)]);
 	const type = headers.get('content-type')?.toLowerCase() ?? '';
 	if (type.startsWith('text/html')) wanted.push(['content-security-policy', OTHER_HTML_POLICY]);
 	// Images and PDFs are shown by the browser's own viewer; a policy adds nothing there.
@@ -52,7 +63,7 @@ export function missingSecurityHeaders(url: URL, headers: Headers): [string, str
  */
 export const securityHeaders: Handle = async ({ event, resolve }) => {
 	let response = (await hostileRequestRefusal(event.request, event.url)) ?? (await resolve(event));
-	const missing = missingSecurityHeaders(event.url, response.headers);
+	const missing = missingSecurityHeaders(event.url, response.headers, response.status);
 	if (missing.length === 0) return response;
 	try {
 		for (const [name, value] of missing) response.headers.set(name, value);
