@@ -125,7 +125,9 @@ describe('PostgreSQL stopped and started under the running shop', () => {
 				.filter((line) => /\[(mail|jobs)\]/.test(line))
 				.slice(-40)
 				.join('\n');
-			throw new Error(`${(error as Error).message}\nthe app's job log:\n${jobLines}`);
+			throw new Error(`${(error as Error).message}\nthe app's job log:\n${jobLines}`, {
+				cause: error
+			});
 		}
 	}
 
