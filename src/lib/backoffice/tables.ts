@@ -11,7 +11,7 @@ import type {
 	SizeClass,
 	TubState
 } from '$lib/server/db/schema';
-import { parseIsoDate, type IsoDate } from '$lib/format/dates';
+import { isCalendarDate, type IsoDate } from '$lib/format/dates';
 import {
 	careEntryKindLabels,
 	moistureReadingLabels,
@@ -116,15 +116,6 @@ export interface RowOfTable {
 export type RowOf<N extends TableName> = RowOfTable[N];
 
 // ---- Filters: each key is also the URL parameter's name
-
-function isCalendarDate(text: string): boolean {
-	try {
-		parseIsoDate(text);
-		return true;
-	} catch {
-		return false;
-	}
-}
 
 /** A GET form sends empty fields as ''; an empty field means "no filter". */
 function optional<T extends z.ZodType>(schema: T) {

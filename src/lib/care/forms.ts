@@ -1,14 +1,12 @@
 // The zod schemas of the colony, care-log and resting-tub forms. Shared by the server
 // (which validates) and the pages (which show the limits as hints).
 import { z } from 'zod';
+import { calendarDate } from '$lib/forms/calendar-date';
 import { MAX_INTEGER_COLUMN, NO_SUCH_ROW } from '$lib/forms/row-id';
 import { holdUntilProblem } from './schedule';
 import { ENCLOSURE_LIMITS } from './substrate';
 
-const isoDate = z
-	.string()
-	.regex(/^\d{4}-\d{2}-\d{2}$/, 'Pick a date.')
-	.refine((value) => !Number.isNaN(Date.parse(`${value}T00:00:00Z`)), 'Pick a real date.');
+const isoDate = calendarDate('Pick a date.');
 
 const note = z.string().trim().max(2000, 'Keep the note under 2,000 characters.').default('');
 

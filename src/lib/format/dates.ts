@@ -53,6 +53,16 @@ export function parseIsoDate(isoDate: IsoDate): Date {
 	return date;
 }
 
+/** Whether text is a real day written YYYY-MM-DD (no 2026-13-01, no 2026-02-30). */
+export function isCalendarDate(text: string): boolean {
+	try {
+		parseIsoDate(text);
+		return true;
+	} catch {
+		return false;
+	}
+}
+
 function toInstant(value: Date | string): Date {
 	const date = value instanceof Date ? value : new Date(value);
 	if (Number.isNaN(date.getTime())) throw new RangeError(`not a date or time: ${String(value)}`);

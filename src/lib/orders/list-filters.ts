@@ -3,14 +3,12 @@
 // (the list shows everything for that filter) and reported beside its field.
 import { z } from 'zod';
 import { statesOf } from '$lib/format/labels';
+import { calendarDate } from '$lib/forms/calendar-date';
 import type { OrderState, Service } from '$lib/server/db/schema';
 
 export const ORDER_PAGE_SIZE = 50;
 
-const isoDate = z
-	.string()
-	.regex(/^\d{4}-\d{2}-\d{2}$/, 'Use a date like 2026-12-01.')
-	.refine((value) => !Number.isNaN(Date.parse(`${value}T00:00:00Z`)), 'That is not a real date.');
+const isoDate = calendarDate('Use a real date like 2026-12-01.');
 
 const fields = {
 	state: z.enum(statesOf('order') as [OrderState, ...OrderState[]]),

@@ -1,7 +1,7 @@
 // The rules a keeper's override of the ship check must still keep: a written reason,
 // and a ship date a carrier can actually take (a business day, today or later, with
 // every transit day a business day too). Pure: the caller passes `today`.
-import { formatShopDate, parseIsoDate, type IsoDate } from '$lib/format/dates';
+import { formatShopDate, isCalendarDate, type IsoDate } from '$lib/format/dates';
 import {
 	deliveryDateFor,
 	federalHolidayOn,
@@ -22,15 +22,6 @@ export function overrideReasonProblem(reason: string): string | null {
 	if (written.length > OVERRIDE_REASON_MAX_LENGTH)
 		return `Keep the reason under ${OVERRIDE_REASON_MAX_LENGTH.toLocaleString('en-US')} characters.`;
 	return null;
-}
-
-function isCalendarDate(value: string): boolean {
-	try {
-		parseIsoDate(value);
-		return true;
-	} catch {
-		return false;
-	}
 }
 
 /** Why a keeper's chosen ship date is refused, or null when a carrier can take the box that day. */

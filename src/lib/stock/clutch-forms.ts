@@ -1,12 +1,10 @@
 // The fields of every form a keeper fills in about a clutch. The server checks each one
 // again against the clutch as it is now (src/lib/server/clutches/clutches.ts).
 import { z } from 'zod';
+import { calendarDate } from '$lib/forms/calendar-date';
 import { MAX_INTEGER_COLUMN, NO_SUCH_ROW } from '$lib/forms/row-id';
 
-const isoDate = z
-	.string()
-	.trim()
-	.regex(/^\d{4}-\d{2}-\d{2}$/, 'Pick a date.');
+const isoDate = calendarDate('Pick a date.');
 
 // An empty box stays empty (not 0) in the form; superforms' documented pattern.
 const emptyNumber = '' as unknown as number;

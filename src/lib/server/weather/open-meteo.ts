@@ -3,7 +3,7 @@
 // forecast_days). Anything but a readable 200 answer within the time allowed is a
 // problem, never a forecast: the caller holds the shipment.
 import { z } from 'zod';
-import { addDays, parseIsoDate, type IsoDate } from '$lib/format/dates';
+import { addDays, isCalendarDate, type IsoDate } from '$lib/format/dates';
 import type { DailyForecast } from '$lib/shipping/ship-check';
 
 /** Open-Meteo serves at most 16 days ahead (its `forecast_days` runs 0–16). */
@@ -69,15 +69,6 @@ const errorBody = z.object({ error: z.literal(true), reason: z.string() });
 function isKnownZone(timeZone: string): boolean {
 	try {
 		new Intl.DateTimeFormat('en-US', { timeZone });
-		return true;
-	} catch {
-		return false;
-	}
-}
-
-function isCalendarDate(text: string): boolean {
-	try {
-		parseIsoDate(text);
 		return true;
 	} catch {
 		return false;
