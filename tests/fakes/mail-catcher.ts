@@ -105,6 +105,7 @@ function summaryOf(message: CaughtMessage): CaughtSummary {
 		from: message.from,
 		to: message.to,
 		subject: message.subject,
+		...(message.messageId ? { messageId: message.messageId } : {}),
 		date: message.date
 	};
 }
@@ -146,6 +147,7 @@ export async function startMailCatcher(options: MailCatcherOptions): Promise<Mai
 							(session.envelope.mailFrom ? session.envelope.mailFrom.address : ''),
 						to: envelopeTo.length ? envelopeTo : addressesOf(parsed.to),
 						subject: parsed.subject ?? '',
+						...(parsed.messageId ? { messageId: parsed.messageId } : {}),
 						// The time it arrived here: the Date header is the sender's claim.
 						date: new Date().toISOString(),
 						html: typeof parsed.html === 'string' ? parsed.html : null,

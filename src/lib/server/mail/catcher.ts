@@ -7,6 +7,8 @@ export interface CaughtSummary {
 	from: string;
 	to: string[];
 	subject: string;
+	/** The Message-ID header, which a resend of the same row repeats (absent in older stores). */
+	messageId?: string;
 	/** ISO time the catcher received it. */
 	date: string;
 }
