@@ -8,6 +8,11 @@ export default defineConfig({
 	// The bundler's plugin-timing report is noise in every start-up log.
 	build: { rolldownOptions: { checks: { bundlerTimings: false } } },
 	test: {
+		// Vitest's default is one worker fewer than the CPUs: one on this 2-core machine, so
+		// every file ran in turn. Most integration files spend their time waiting (on
+		// PostgreSQL, the built app they start, a fake's retries, a timeout), so three at once
+		// nearly halves the run (9.7 → 5.3 min measured here) without starving the CPU.
+		maxWorkers: 3,
 		projects: [
 			{
 				extends: true,
