@@ -26,7 +26,8 @@ trap 'exit 130' INT TERM
 if ! bash scripts/db.sh status; then STARTED_DB=1; fi
 bash scripts/db.sh start
 
-step() { say "── $* ──"; }
+# Each step says how far into the run it starts, so a slow step shows in the log.
+step() { say "── $* ── (at $(( $(date +%s) - started_at )) s)"; }
 
 step "fresh test database: migrate and seed"
 if [ "$PG_MANAGED" = "1" ]; then
@@ -39,11 +40,21 @@ npx svelte-kit sync
 npx tsx scripts/migrate.ts latest
 npx tsx seed/run.ts
 
-step "svelte-check"
-npm run --silent check
-
-step "lint (prettier + eslint)"
-npm run --silent lint
+step "svelte-check and lint (prettier + eslint), side by side"
+# Each is one process on one core; together they take the time of the slower. Each one's
+# output is printed whole once it ends, so the two never interleave.
+check_log=$(mktemp) lint_log=$(mktemp)
+npm run --silent check >"$check_log" 2>&1 &
+check_pid=$!
+npm run --silent lint >"$lint_log" 2>&1 &
+lint_pid=$!
+check_rc=0 lint_rc=0
+wait "$check_pid" || check_rc=$?
+wait "$lint_pid" || lint_rc=$?
+cat "$check_log" "$lint_log"
+rm -f "$check_log" "$lint_log"
+[ "$check_rc" = 0 ] || die "svelte-check failed"
+[ "$lint_rc" = 0 ] || die "lint failed"
 
 step "production build"
 npx vite build --logLevel warn
