@@ -18,6 +18,10 @@ export default defineConfig({
 				extends: true,
 				test: {
 					name: 'unit',
+					// Pure modules, no shared state worth a fresh module graph per file: reusing
+					// one per worker cuts the unit run from 58 s to 20 s here, nearly all of it
+					// imports. (The one file that stubs the environment unstubs after each test.)
+					isolate: false,
 					include: [
 						'src/**/*.test.ts',
 						'seed/**/*.test.ts',
