@@ -18,7 +18,7 @@ import type { CaughtSummary } from '../../src/lib/server/mail/catcher';
 import { startMailCatcher, type MailCatcher } from '../fakes/mail-catcher';
 import { startStripeFake, TEST_CARDS, type StripeFake } from '../fakes/stripe/server';
 import { startApp, type RunningApp } from './support/app';
-import { insertListedClutch } from './support/stock';
+import { insertListedClutch, speciesIdBySlug } from './support/stock';
 import { knoxvilleBuyer, ShopClient, waitFor, type Answer } from './support/shop-client';
 import { startThrowawayCluster, type ThrowawayCluster } from './support/throwaway-cluster';
 
@@ -58,14 +58,10 @@ describe('PostgreSQL stopped and started under the running shop', () => {
 		assertMigrated(await migratorFor(db).migrateToLatest());
 		await installJobSchema(url);
 		await seedDemo(db, { today: '2026-12-01' });
-		const species = await db
-			.selectFrom('species')
-			.select('id')
-			.where('slug', '=', 'cubaris-murina')
-			.executeTakeFirstOrThrow();
+		const speciesId = await speciesIdBySlug(db, 'cubaris-murina');
 		listingSlug = 'fault-test-isopods';
 		({ listingId } = await insertListedClutch(db, {
-			speciesId: species.id,
+			speciesId,
 			code: 'FLT-01',
 			slug: listingSlug,
 			title: 'Fault-test isopods',

@@ -11,7 +11,7 @@ import { startStripeFake, TEST_CARDS, type StripeFake } from '../fakes/stripe/se
 import { freePort, startApp, type RunningApp } from './support/app';
 import { scratchDatabase, type ScratchDatabase } from './support/databases';
 import { knoxvilleBuyer, ShopClient, waitFor } from './support/shop-client';
-import { insertListedClutch } from './support/stock';
+import { insertListedClutch, speciesIdBySlug } from './support/stock';
 
 const API_KEY = 'sk_test_local_fake_fault_mail';
 const WEBHOOK_SECRET = 'whsec_local_fake_fault_mail';
@@ -28,13 +28,9 @@ describe('the SMTP relay down while shop mail is queued', () => {
 	beforeAll(async () => {
 		scratch = await scratchDatabase();
 		await seedDemo(scratch.db, { today: '2026-12-01' });
-		const species = await scratch.db
-			.selectFrom('species')
-			.select('id')
-			.where('slug', '=', 'cubaris-murina')
-			.executeTakeFirstOrThrow();
+		const speciesId = await speciesIdBySlug(scratch.db, 'cubaris-murina');
 		({ listingId } = await insertListedClutch(scratch.db, {
-			speciesId: species.id,
+			speciesId,
 			code: 'ML-01',
 			slug: 'mail-test-isopods',
 			title: 'Mail-test isopods',

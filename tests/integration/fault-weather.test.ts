@@ -15,7 +15,7 @@ import { startWeatherFake, type WeatherFake } from '../fakes/weather/server';
 import { startApp, type RunningApp } from './support/app';
 import { scratchDatabase, type ScratchDatabase } from './support/databases';
 import { ShopClient, waitFor } from './support/shop-client';
-import { insertListedClutch } from './support/stock';
+import { insertListedClutch, speciesIdBySlug } from './support/stock';
 
 const API_KEY = 'sk_test_local_fake_fault_weather';
 const WEBHOOK_SECRET = 'whsec_local_fake_fault_weather';
@@ -127,13 +127,9 @@ describe('the forecast service slow, stalled, failing or gone', () => {
 	beforeAll(async () => {
 		scratch = await scratchDatabase();
 		await seedDemo(scratch.db, { today: '2026-12-01' });
-		const species = await scratch.db
-			.selectFrom('species')
-			.select('id')
-			.where('slug', '=', 'cubaris-murina')
-			.executeTakeFirstOrThrow();
+		const speciesId = await speciesIdBySlug(scratch.db, 'cubaris-murina');
 		({ listingId } = await insertListedClutch(scratch.db, {
-			speciesId: species.id,
+			speciesId,
 			code: 'WX-01',
 			slug: 'forecast-test-isopods',
 			title: 'Forecast-test isopods',

@@ -6,7 +6,7 @@
 // miss it are refused whole (nothing held of A either), and the money and the stock agree.
 import { sql } from 'kysely';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { insertListedClutch } from './support/stock';
+import { insertListedClutch, speciesIdBySlug } from './support/stock';
 import {
 	Buyer,
 	buyerAddress,
@@ -48,13 +48,7 @@ describe('carts {A, B} and {B, A} checked out at the same moment', () => {
 	});
 
 	it(`${PAIRS} times over: no server error, all or nothing per cart, and the ledger agrees`, async () => {
-		const speciesId = (
-			await shop.db
-				.selectFrom('species')
-				.select('id')
-				.where('slug', '=', 'cubaris-murina')
-				.executeTakeFirstOrThrow()
-		).id;
+		const speciesId = await speciesIdBySlug(shop.db, 'cubaris-murina');
 		const a = await insertListedClutch(shop.db, {
 			speciesId,
 			code: 'PAIR-A',

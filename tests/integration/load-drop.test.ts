@@ -5,7 +5,7 @@
 // count of free animals or holds ever goes below zero, watched while the race runs.
 import { sql } from 'kysely';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { insertListedClutch } from './support/stock';
+import { insertListedClutch, speciesIdBySlug } from './support/stock';
 import { Buyer, buyerAddress, startLoadShop, type LoadShop } from './support/load-shop';
 
 /** What the add-to-cart button says to someone who comes when none is left. */
@@ -29,13 +29,7 @@ describe('a drop of 12 juveniles to 50 buyers at once', () => {
 
 	beforeAll(async () => {
 		shop = await startLoadShop({ deliverEvents: true });
-		speciesId = (
-			await shop.db
-				.selectFrom('species')
-				.select('id')
-				.where('slug', '=', 'cubaris-murina')
-				.executeTakeFirstOrThrow()
-		).id;
+		speciesId = await speciesIdBySlug(shop.db, 'cubaris-murina');
 		overnightFee = (
 			await shop.db
 				.selectFrom('shop_setting')

@@ -7,7 +7,7 @@
 import fc from 'fast-check';
 import { sql } from 'kysely';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { insertListedClutch } from './support/stock';
+import { insertListedClutch, speciesIdBySlug } from './support/stock';
 import {
 	Buyer,
 	buyerAddress,
@@ -57,13 +57,7 @@ describe('every event of 30 orders delivered three times, shuffled', () => {
 
 	it('applies each event once and leaves every order in its right state', async () => {
 		const note = `shuffle seed ${SEED}`;
-		const speciesId = (
-			await shop.db
-				.selectFrom('species')
-				.select('id')
-				.where('slug', '=', 'cubaris-murina')
-				.executeTakeFirstOrThrow()
-		).id;
+		const speciesId = await speciesIdBySlug(shop.db, 'cubaris-murina');
 		const live = await insertListedClutch(shop.db, {
 			speciesId,
 			code: 'STORM-A',

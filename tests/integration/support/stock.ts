@@ -19,6 +19,16 @@ export interface ListedClutchSpec {
 	sex?: Sex;
 }
 
+/** A seeded species' id by its slug (the demo seeds `cubaris-murina` and the rest). */
+export async function speciesIdBySlug(db: Db, slug: string): Promise<number> {
+	const species = await db
+		.selectFrom('species')
+		.select('id')
+		.where('slug', '=', slug)
+		.executeTakeFirstOrThrow();
+	return species.id;
+}
+
 export async function insertListedClutch(
 	db: Db,
 	spec: ListedClutchSpec
