@@ -1,6 +1,8 @@
 // Lab Core Web Vitals in headless Chromium (the system's browser, never a downloaded one):
 // each load in a fresh browser context, so nothing is cached, the pages taken in turn.
 import { chromium } from '@playwright/test';
+// The flags the end-to-end tests launch Chromium with.
+import { CHROMIUM_ARGS } from '../../tests/e2e/playwright.config';
 import { BenchError } from './load';
 import {
 	readVitalsSample,
@@ -40,18 +42,6 @@ export interface PageVitalsAt extends PageVitals {
 	width: number;
 	height: number;
 }
-
-// The flags the end-to-end tests use: root in a container has no sandbox, and the browser
-// stays off the network apart from the pages it is sent to.
-const CHROMIUM_ARGS = [
-	'--no-sandbox',
-	'--disable-gpu',
-	'--disable-quic',
-	'--no-first-run',
-	'--disable-background-networking',
-	'--disable-component-update',
-	'--disable-sync'
-];
 
 /** Every page at every viewport, `rounds` cold loads each, taken in turn (A B A B …). */
 export async function measureVitals(options: VitalsOptions): Promise<PageVitalsAt[]> {

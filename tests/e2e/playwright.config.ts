@@ -21,6 +21,17 @@ const carrierPort = 2598;
 export const carrierApi = `http://127.0.0.1:${carrierPort}`;
 export const trackingWebhookSecret = 'tracking_local_fake_e2e';
 
+/** Root in a container has no sandbox; the rest keeps Chromium off the closed network. */
+export const CHROMIUM_ARGS = [
+	'--no-sandbox',
+	'--disable-gpu',
+	'--disable-quic',
+	'--no-first-run',
+	'--disable-background-networking',
+	'--disable-component-update',
+	'--disable-sync'
+];
+
 export default defineConfig({
 	testDir: '.',
 	testMatch: '**/*.e2e.ts',
@@ -35,16 +46,7 @@ export default defineConfig({
 		trace: 'retain-on-failure',
 		launchOptions: {
 			executablePath: '/usr/bin/chromium',
-			// Root in a container has no sandbox; the rest keeps Chromium off the closed network.
-			args: [
-				'--no-sandbox',
-				'--disable-gpu',
-				'--disable-quic',
-				'--no-first-run',
-				'--disable-background-networking',
-				'--disable-component-update',
-				'--disable-sync'
-			]
+			args: CHROMIUM_ARGS
 		}
 	},
 	projects: [

@@ -7,11 +7,10 @@ import { copyFile, mkdtemp, readFile, readdir, rm, stat, truncate } from 'node:f
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { sql } from 'kysely';
-import pg from 'pg';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { seedDemo } from '../../seed/demo';
 import { createDb, type Db } from '../../src/lib/server/db/connect';
-import { scratchDatabase, type ScratchDatabase } from './support/databases';
+import { scratchDatabase, withAdmin, type ScratchDatabase } from './support/databases';
 import { testClusterUrl } from './support/env';
 
 const ROOT = path.resolve(import.meta.dirname, '../..');
@@ -37,16 +36,6 @@ function runScript(
 			}
 		);
 	});
-}
-
-async function withAdmin<T>(work: (client: pg.Client) => Promise<T>): Promise<T> {
-	const client = new pg.Client({ connectionString: testClusterUrl('postgres') });
-	await client.connect();
-	try {
-		return await work(client);
-	} finally {
-		await client.end();
-	}
 }
 
 async function databaseExists(name: string): Promise<boolean> {

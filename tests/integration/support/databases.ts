@@ -5,7 +5,8 @@ import pg from 'pg';
 import { createDb, type Db } from '../../../src/lib/server/db/connect';
 import { TEMPLATE_DATABASE, testClusterUrl } from './env';
 
-async function withAdmin<T>(work: (client: pg.Client) => Promise<T>): Promise<T> {
+/** Runs work on a connection to the cluster's `postgres` database, closed afterwards. */
+export async function withAdmin<T>(work: (client: pg.Client) => Promise<T>): Promise<T> {
 	const client = new pg.Client({ connectionString: testClusterUrl('postgres') });
 	await client.connect();
 	try {
